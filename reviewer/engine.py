@@ -1,0 +1,124 @@
+"""Run every rule over a validated build and gather a deterministic review."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass, replace
+
+from reviewer import __version__
+from reviewer.build import Build
+from reviewer.findings import (
+    Assumption,
+    DerivedFigure,
+    Finding,
+    Severity,
+    Verdict,
+    decide_verdict,
+)
+from reviewer.plugins import PackProblem
+from reviewer.profile import MissingLimit, Profile
+from reviewer.rule import Rule
+
+
+@dataclass(frozen=True)
+class Review:
+    build: Build
+    build_path: str
+    build_fingerprint: str
+    profile: Profile
+    rules: tuple[Rule, ...]
+    findings: tuple[Finding, ...]
+    figures: tuple[DerivedFigure, ...]
+    assumptions: tuple[Assumption, ...]
+    problems: tuple[PackProblem, ...]
+    verdict: Verdict
+    tool_version: str = __version__
+
+    def count(self, severity: Severity) -> int:
+        return sum(1 for f in self.findings if f.severity is severity)
+
+    @property
+    def packs(self) -> list[tuple[str, str]]:
+        return sorted({(r.pack, r.pack_version) for r in self.rules})
+
+
+def run_rule(rule: Rule, build: Build, profile: Profile) -> list[object]:
+    """One rule, fenced: whatever it raises or returns wrongly becomes an unassessed finding."""
+    try:
+        outputs = list(rule.check(build, profile))
+    except MissingLimit as exc:
+        return [_unassessed(rule, f"the profile lacks a limit this rule needs: {exc}")]
+    except Exception as exc:  # noqa: BLE001 - a crashing rule must never let a review pass
+        return [_unassessed(rule, f"the rule failed to run: {type(exc).__name__}: {exc}")]
+    stamped: list[object] = []
+    for item in outputs:
+        if isinstance(item, Finding):
+            stamped.append(replace(item, rule_id=rule.id, title=rule.title))
+        elif isinstance(item, DerivedFigure | Assumption):
+            stamped.append(item)
+        else:
+            return [_unassessed(rule, f"the rule returned {type(item).__name__}, not a finding")]
+    if not any(isinstance(item, Finding) for item in stamped):
+        stamped.append(_unassessed(rule, "the rule returned no finding"))
+    return stamped
+
+
+def _unassessed(rule: Rule, error: str) -> Finding:
+    return Finding(
+        severity=Severity.UNASSESSED,
+        subject="(whole rule)",
+        rationale=error,
+        error=error,
+        rule_id=rule.id,
+        title=rule.title,
+        sources=rule.sources,
+    )
+
+
+def review(
+    build: Build,
+    profile: Profile,
+    rules: Sequence[Rule],
+    *,
+    build_path: str = "",
+    build_fingerprint: str = "",
+    problems: Sequence[PackProblem] = (),
+) -> Review:
+    findings: list[Finding] = []
+    figures: dict[str, DerivedFigure] = {}
+    assumptions: dict[str, Assumption] = {}
+    for rule in rules:
+        for item in run_rule(rule, build, profile):
+            if isinstance(item, Finding):
+                findings.append(item)
+            elif isinstance(item, DerivedFigure):
+                figures.setdefault(item.name, item)
+            elif isinstance(item, Assumption):
+                assumptions.setdefault(item.text, item)
+    mandatory = set(profile.mandatory_rules)
+    known = {rule.id for rule in rules}
+    for rule_id in sorted(mandatory - known):
+        findings.append(
+            Finding(
+                severity=Severity.UNASSESSED,
+                subject="(whole rule)",
+                rationale="the profile requires this rule but no loaded pack provides it",
+                error="required rule not loaded",
+                rule_id=rule_id,
+                title=rule_id,
+            )
+        )
+    findings.sort(key=lambda f: f.sort_key)
+    verdict = decide_verdict(findings, mandatory)
+    return Review(
+        build=build,
+        build_path=build_path,
+        build_fingerprint=build_fingerprint,
+        profile=profile,
+        rules=tuple(rules),
+        findings=tuple(findings),
+        figures=tuple(sorted(figures.values(), key=lambda d: (d.order, d.name))),
+        assumptions=tuple(sorted(assumptions.values(), key=lambda a: a.text)),
+        problems=tuple(problems),
+        verdict=verdict,
+    )

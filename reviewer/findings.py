@@ -1,0 +1,158 @@
+"""What a rule returns: findings with numbers, limits, sources and remedies; and the verdict."""
+
+from __future__ import annotations
+
+import enum
+from collections.abc import Iterable
+from dataclasses import dataclass, field
+
+import pint
+
+
+class Severity(enum.Enum):
+    """Worst first. ``unassessed`` is not a severity of the build but of the review itself."""
+
+    STOP = "stop"
+    FIX = "fix"
+    ADVISE = "advise"
+    PASS = "pass"
+    UNASSESSED = "unassessed"
+
+    @property
+    def rank(self) -> int:
+        return _RANK[self]
+
+    @property
+    def meaning(self) -> str:
+        return _MEANING[self]
+
+
+_RANK = {
+    Severity.STOP: 0,
+    Severity.UNASSESSED: 1,
+    Severity.FIX: 2,
+    Severity.ADVISE: 3,
+    Severity.PASS: 4,
+}
+_MEANING = {
+    Severity.STOP: "do not ride until resolved",
+    Severity.FIX: "resolve before regular use",
+    Severity.ADVISE: "improvement",
+    Severity.PASS: "checked, within limits",
+    Severity.UNASSESSED: "could not be checked",
+}
+
+
+class SourceStatus(enum.Enum):
+    PUBLISHED = "published"
+    COMMON_PRACTICE = "common practice"
+    FROM_MEMORY = "from memory"
+    DERIVED = "derived"
+    USER = "builder's datasheet"
+
+
+@dataclass(frozen=True)
+class Source:
+    """Where a limit or formula comes from, and how sure we are of it."""
+
+    citation: str
+    status: SourceStatus = SourceStatus.PUBLISHED
+
+    @classmethod
+    def common_practice(cls, citation: str) -> Source:
+        return cls(citation, SourceStatus.COMMON_PRACTICE)
+
+    @classmethod
+    def from_memory(cls, citation: str) -> Source:
+        return cls(citation, SourceStatus.FROM_MEMORY)
+
+
+class Comparison(enum.Enum):
+    AT_MOST = "at most"
+    AT_LEAST = "at least"
+
+
+@dataclass(frozen=True)
+class Finding:
+    """One checked item: a rule's verdict on one subject (a wire, a rider, a pin...)."""
+
+    severity: Severity
+    subject: str
+    rationale: str
+    measured: pint.Quantity | None = None
+    limit: pint.Quantity | None = None
+    comparison: Comparison = Comparison.AT_MOST
+    remedy: str | None = None
+    sources: tuple[Source, ...] = ()
+    missing: tuple[str, ...] = ()  # build fields whose absence left this unassessed
+    error: str | None = None  # a rule that raised: its error
+    rule_id: str = ""  # stamped by the engine from the rule that returned it
+    title: str = ""  # likewise
+
+    @property
+    def margin(self) -> float | None:
+        """Headroom as a fraction of the limit: positive within, negative beyond."""
+        if self.measured is None or self.limit is None:
+            return None
+        limit = float(self.limit.to_base_units().magnitude)
+        measured = float(self.measured.to(self.limit.units).to_base_units().magnitude)
+        if limit == 0:
+            return None
+        if self.comparison is Comparison.AT_MOST:
+            return (limit - measured) / abs(limit)
+        return (measured - limit) / abs(limit)
+
+    @property
+    def sort_key(self) -> tuple[int, str, str]:
+        return (self.severity.rank, self.rule_id, self.subject)
+
+
+class Verdict(enum.Enum):
+    GO = "go"
+    NO_GO = "no-go"
+    CONDITIONAL = "conditional"
+    INCOMPLETE = "incomplete"
+
+    @property
+    def meaning(self) -> str:
+        return {
+            Verdict.GO: "no stop or fix findings, and every mandatory check was assessed",
+            Verdict.NO_GO: "at least one stop finding: do not ride until it is resolved",
+            Verdict.CONDITIONAL: "fix findings only: resolve them before regular use",
+            Verdict.INCOMPLETE: "a mandatory check could not be assessed or failed to run",
+        }[self]
+
+
+def decide_verdict(findings: Iterable[Finding], mandatory_rules: Iterable[str]) -> Verdict:
+    """Fail closed: a stop wins, then anything mandatory left unassessed, then fixes."""
+    findings = list(findings)
+    mandatory = set(mandatory_rules)
+    if any(f.severity is Severity.STOP for f in findings):
+        return Verdict.NO_GO
+    ran = {f.rule_id for f in findings if f.severity is not Severity.UNASSESSED}
+    unassessed = {f.rule_id for f in findings if f.severity is Severity.UNASSESSED}
+    if any(f.error for f in findings):
+        return Verdict.INCOMPLETE
+    if mandatory & unassessed or mandatory - ran - unassessed:
+        return Verdict.INCOMPLETE
+    if any(f.severity is Severity.FIX for f in findings):
+        return Verdict.CONDITIONAL
+    return Verdict.GO
+
+
+@dataclass(frozen=True)
+class Assumption:
+    """A default or simplification a rule relied on; the review lists them all."""
+
+    text: str
+    source: Source | None = None
+
+
+@dataclass(frozen=True)
+class DerivedFigure:
+    """A number the review computed and shows for reference (pack voltage, top speed...)."""
+
+    name: str
+    value: pint.Quantity | str
+    note: str = ""
+    order: int = field(default=100, compare=False)

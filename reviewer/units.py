@@ -1,0 +1,199 @@
+"""One unit registry for the whole process, and the strict gate that turns text into quantities.
+
+pint's own expression parser evaluates arithmetic (``9**9**9 V`` can hang it, ``1/0 V`` raises
+ZeroDivisionError), so build files never reach it. A quantity string must match a strict
+pattern: one decimal number, then a unit made of names joined by ``*``, ``/`` or spaces with
+small integer exponents. Only the unit part goes to pint, as units, never as an expression.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from typing import Any
+
+import pint
+from pydantic import GetCoreSchemaHandler, GetJsonSchemaHandler
+from pydantic_core import PydanticCustomError, core_schema
+
+ureg = pint.UnitRegistry(cache_folder=":auto:", autoconvert_offset_to_baseunit=True)
+ureg.formatter.default_format = "~P"
+Quantity = ureg.Quantity
+
+MAX_QUANTITY_TEXT = 64
+_NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d{1,3})?"
+_UNIT_NAME = r"(?:[A-Za-z_°µΩ%]+)"
+_EXPONENT = r"(?:(?:\^|\*\*)-?[1-4])?"
+_FACTOR = _UNIT_NAME + _EXPONENT
+_UNIT = rf"{_FACTOR}(?:\s*(?:[*/·]|\s)\s*{_FACTOR})*"
+_QUANTITY_RE = re.compile(rf"^\s*(?P<number>{_NUMBER})\s*(?P<unit>{_UNIT})\s*$")
+
+
+class QuantityError(ValueError):
+    """A quantity string that is not a number followed by a unit of the expected kind."""
+
+
+@dataclass(frozen=True)
+class Dimension:
+    """What a field measures: its display unit, an example and the physical range it accepts."""
+
+    unit: str
+    example: str
+    what: str
+    minimum: float | None = None  # in `unit`
+    maximum: float | None = None  # in `unit`
+    allow_zero: bool = False
+
+    @property
+    def reference(self) -> pint.Quantity:
+        return _reference(self.unit)
+
+
+_REFERENCES: dict[str, pint.Quantity] = {}
+
+
+def _reference(unit: str) -> pint.Quantity:
+    ref = _REFERENCES.get(unit)
+    if ref is None:
+        ref = _REFERENCES[unit] = Quantity(1.0, unit)
+    return ref
+
+
+def parse_quantity(text: object, dimension: Dimension) -> pint.Quantity:
+    """Parse ``"24 V"`` into a quantity in the dimension's unit, or raise QuantityError."""
+    if not isinstance(text, str):
+        raise QuantityError(
+            f"expected {dimension.what} as a string with a unit, e.g. {dimension.example!r}"
+        )
+    if len(text) > MAX_QUANTITY_TEXT:
+        raise QuantityError(f"quantity text longer than {MAX_QUANTITY_TEXT} characters")
+    match = _QUANTITY_RE.match(text)
+    if match is None:
+        if re.fullmatch(rf"\s*{_NUMBER}\s*", text):
+            raise QuantityError(
+                f"{text!r} has no unit; expected {dimension.what}, e.g. {dimension.example!r}"
+            )
+        raise QuantityError(
+            f"{text!r} is not a number followed by a unit; expected {dimension.what}, "
+            f"e.g. {dimension.example!r}"
+        )
+    magnitude = float(match["number"])
+    if not math.isfinite(magnitude):
+        raise QuantityError(f"{text!r} is not a finite number")
+    unit_text = match["unit"].replace("^", "**").replace("·", "*")
+    try:
+        units = ureg.parse_units(unit_text)
+    except (pint.PintError, ValueError, TypeError, AttributeError, ArithmeticError) as exc:
+        raise QuantityError(f"unknown unit {match['unit']!r} in {text!r}") from exc
+    reference = dimension.reference
+    if units.dimensionality != reference.dimensionality:
+        raise QuantityError(
+            f"{text!r} is not {dimension.what}; expected a unit like {dimension.unit!r}, "
+            f"e.g. {dimension.example!r}"
+        )
+    quantity = Quantity(magnitude, units).to(dimension.unit)
+    value = float(quantity.magnitude)
+    if not math.isfinite(value):
+        raise QuantityError(f"{text!r} is out of range")
+    low, high = dimension.minimum, dimension.maximum
+    if value == 0 and not dimension.allow_zero:
+        raise QuantityError(f"{text!r} must not be zero for {dimension.what}")
+    if low is not None and value < low:
+        raise QuantityError(
+            f"{text!r} is below the physical range for {dimension.what} "
+            f"({low:g} {dimension.unit} to {high:g} {dimension.unit})"
+        )
+    if high is not None and value > high:
+        raise QuantityError(
+            f"{text!r} is above the physical range for {dimension.what} "
+            f"({low:g} {dimension.unit} to {high:g} {dimension.unit})"
+        )
+    return quantity
+
+
+class QuantityField:
+    """Annotated marker: ``Annotated[pint.Quantity, QuantityField(VOLTAGE)]``."""
+
+    def __init__(self, dimension: Dimension) -> None:
+        self.dimension = dimension
+
+    def __get_pydantic_core_schema__(
+        self, source: Any, handler: GetCoreSchemaHandler
+    ) -> core_schema.CoreSchema:
+        dimension = self.dimension
+
+        def validate(value: Any) -> pint.Quantity:
+            if isinstance(value, pint.Quantity):
+                value = f"{value.magnitude} {value.units:~}"
+            try:
+                return parse_quantity(value, dimension)
+            except QuantityError as exc:
+                raise PydanticCustomError("quantity", str(exc)) from None
+
+        return core_schema.no_info_plain_validator_function(
+            validate,
+            serialization=core_schema.plain_serializer_function_ser_schema(format_quantity),
+        )
+
+    def __get_pydantic_json_schema__(
+        self, schema: core_schema.CoreSchema, handler: GetJsonSchemaHandler
+    ) -> dict[str, Any]:
+        d = self.dimension
+        description = f"{d.what} as a number and a unit (a unit like {d.unit})"
+        if d.minimum is not None and d.maximum is not None:
+            description += f"; accepted range {d.minimum:g} to {d.maximum:g} {d.unit}"
+        return {
+            "type": "string",
+            "pattern": _QUANTITY_RE.pattern,
+            "maxLength": MAX_QUANTITY_TEXT,
+            "examples": [d.example],
+            "description": description,
+            "x-dimension": str(d.reference.dimensionality),
+        }
+
+
+def format_quantity(quantity: pint.Quantity | None, digits: int = 3) -> str:
+    """Short, stable text for a quantity: three significant figures and the unit's symbol."""
+    if quantity is None:
+        return "n/a"
+    magnitude = float(quantity.magnitude)
+    return f"{format_number(magnitude, digits)} {quantity.units:~P}".strip()
+
+
+def format_number(value: float, digits: int = 3) -> str:
+    if not math.isfinite(value):
+        return "∞" if value > 0 else ("-∞" if value < 0 else "n/a")
+    if value == 0:
+        return "0"
+    text = f"{value:.{digits}g}"
+    if "e" in text:
+        mantissa, exponent = text.split("e")
+        return f"{mantissa}×10^{int(exponent)}"
+    return text
+
+
+# Dimensions used by build files and profiles. Ranges are physical sanity bounds for a light
+# vehicle, wide enough for any real build; they catch typos like "1e30 V" or "-0.3 ohm".
+VOLTAGE = Dimension("V", "24 V", "a voltage", 0.0, 1000.0)
+CURRENT = Dimension("A", "20 A", "a current", 0.0, 100_000.0)
+SMALL_CURRENT = Dimension("mA", "20 mA", "a current", 0.0, 100_000.0)
+RESISTANCE = Dimension("ohm", "0.35 ohm", "a resistance", 0.0, 1.0e6)
+LENGTH = Dimension("m", "0.5 m", "a length", 0.0, 1000.0)
+DIAMETER = Dimension("mm", "90 mm", "a diameter", 0.0, 5000.0)
+AREA = Dimension("mm**2", "2.5 mm^2", "a cross-section area", 0.0, 1000.0)
+DRAG_AREA = Dimension("m**2", "0.6 m^2", "a drag area (CdA)", 0.0, 10.0)
+MASS = Dimension("kg", "80 kg", "a mass", 0.0, 2000.0)
+CHARGE = Dimension("mAh", "3000 mAh", "a cell capacity", 0.0, 1.0e7)
+SPEED = Dimension("km/h", "25 km/h", "a speed", 0.0, 500.0)
+ROTATION = Dimension("rpm", "4500 rpm", "a rotational speed", 0.0, 200_000.0)
+KV = Dimension("rpm/V", "190 rpm/V", "a motor velocity constant Kv", 0.0, 100_000.0)
+TEMPERATURE = Dimension("degC", "40 degC", "a temperature", -60.0, 400.0, allow_zero=True)
+TIME = Dimension("s", "10 ms", "a duration", 0.0, 1.0e6)
+FREQUENCY = Dimension("kHz", "16 kHz", "a frequency", 0.0, 10_000.0)
+THERMAL_RESISTANCE = Dimension("K/W", "0.5 K/W", "a thermal resistance", 0.0, 1000.0)
+ACCELERATION = Dimension("m/s**2", "3 m/s^2", "an acceleration", 0.0, 100.0)
+GRADE = Dimension("percent", "8 %", "a grade (rise over run)", 0.0, 100.0, allow_zero=True)
+FRACTION = Dimension("percent", "85 %", "a fraction", 0.0, 100.0)
+ENERGY = Dimension("Wh", "500 Wh", "an energy", 0.0, 1.0e6)
+POWER = Dimension("W", "250 W", "a power", 0.0, 1.0e6)

@@ -1,0 +1,17 @@
+"""firstride's built-in rule pack.
+
+Installed as ``firstride_rules`` and registered through the ``firstride.packs`` entry point,
+exactly as a third-party pack would be: read this module to learn how to write one.
+"""
+
+from __future__ import annotations
+
+from reviewer import hookimpl
+from reviewer.rule import Rule
+
+
+@hookimpl
+def firstride_register_rules() -> list[Rule]:
+    from firstride_rules import enclosure, logic, motor, speed, wiring
+
+    return [wiring.RULE, motor.RULE, speed.RULE, enclosure.RULE, logic.RULE]
