@@ -43,3 +43,10 @@ def awg_area(gauge: str | int) -> float:
     n = parse_awg(gauge) if isinstance(gauge, str) else gauge
     d = awg_diameter_mm(n)
     return math.pi * d * d / 4
+
+
+def conductor_resistance(area_mm2: float, length_m: float, temperature_c: float = 20.0) -> float:
+    """Resistance in ohm of a copper conductor: rho L / A at 20 degC (IEC 60028), corrected
+    with R2/R1 = (234.5 + T2) / (234.5 + T1)."""
+    r20 = COPPER_RESISTIVITY_20C * length_m / area_mm2
+    return r20 * (COPPER_INFERRED_ZERO + temperature_c) / (COPPER_INFERRED_ZERO + 20.0)
