@@ -50,7 +50,9 @@ Fraction = Annotated[pint.Quantity, _q(u.FRACTION)]
 
 
 class _Model(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True, arbitrary_types_allowed=True)
+    model_config = ConfigDict(
+        extra="forbid", frozen=True, arbitrary_types_allowed=True, allow_inf_nan=False
+    )
 
 
 class VehicleKind(enum.Enum):

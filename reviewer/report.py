@@ -1,0 +1,114 @@
+"""Turn a Review into Markdown through the Jinja2 templates in ``templates/``.
+
+Every ``{{ expression }}`` in a template passes through :func:`markdown_text` on its way out,
+so text that came from a build file (a rider called ``| # <script>``) cannot break a table,
+start a heading or inject HTML. Templates mark their own table syntax with the ``raw`` filter.
+"""
+
+from __future__ import annotations
+
+from functools import cache
+from importlib import resources
+from typing import Any
+
+import jinja2
+
+from reviewer.engine import Review
+from reviewer.findings import Comparison, Finding, Severity
+from reviewer.units import format_number, format_quantity
+
+SEVERITY_ORDER = (
+    Severity.STOP,
+    Severity.UNASSESSED,
+    Severity.FIX,
+    Severity.ADVISE,
+    Severity.PASS,
+)
+_MD_BACKSLASH = set("\\`*_{}[]#|~!")
+_MD_ENTITY = {"<": "&lt;", ">": "&gt;", "&": "&amp;"}
+
+
+class Raw(str):
+    """Template-authored Markdown that must pass through unescaped."""
+
+
+def markdown_text(value: Any) -> str:
+    """Escape text for inline Markdown: one line, no table breaks, no HTML, no emphasis."""
+    if isinstance(value, Raw):
+        return str(value)
+    if value is None:
+        return ""
+    text = str(value)
+    out = []
+    for char in text:
+        if char in _MD_BACKSLASH:
+            out.append("\\" + char)
+        elif char in _MD_ENTITY:
+            out.append(_MD_ENTITY[char])
+        elif char in "\r\n\t":
+            out.append(" ")
+        elif ord(char) < 32:
+            continue
+        else:
+            out.append(char)
+    return "".join(out)
+
+
+def _quantity(value: Any) -> str:
+    if value is None:
+        return Raw("n/a")
+    if isinstance(value, str):
+        return value  # text from a rule or build: still escaped on output
+    return Raw(format_quantity(value))
+
+
+def _margin(finding: Finding) -> str:
+    margin = finding.margin
+    if margin is None:
+        return Raw("n/a")
+    return Raw(f"{'+' if margin >= 0 else ''}{format_number(margin * 100, 3)} %")
+
+
+def _limit(finding: Finding) -> str:
+    if finding.limit is None:
+        return Raw("n/a")
+    word = "≤" if finding.comparison is Comparison.AT_MOST else "≥"
+    return Raw(f"{word} {format_quantity(finding.limit)}")
+
+
+@cache
+def environment() -> jinja2.Environment:
+    folder = resources.files("reviewer.templates")
+
+    def load(name: str) -> str:
+        return folder.joinpath(name).read_text("utf-8")
+
+    env = jinja2.Environment(
+        loader=jinja2.FunctionLoader(load),
+        finalize=markdown_text,
+        autoescape=False,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=True,
+        undefined=jinja2.StrictUndefined,
+    )
+    env.filters["raw"] = Raw
+    env.filters["qty"] = _quantity
+    env.filters["margin"] = _margin
+    env.filters["limit"] = _limit
+    return env
+
+
+def render_markdown(review: Review) -> str:
+    template = environment().get_template("review.md.j2")
+    findings = list(review.findings)
+    counts = [(s, review.count(s)) for s in SEVERITY_ORDER]
+    text = template.render(
+        review=review,
+        build=review.build,
+        counts=counts,
+        acted=[f for f in findings if f.severity is not Severity.PASS],
+        passed=[f for f in findings if f.severity is Severity.PASS],
+        unassessed=[f for f in findings if f.severity is Severity.UNASSESSED],
+    )
+    return "\n".join(line.rstrip() for line in text.splitlines()) + "\n"
