@@ -433,3 +433,31 @@ class Build(_Model):
                 if name not in wire_names:
                     raise ValueError(f"fuse {fuse.name!r} protects {name!r}, not in wires")
         return self
+
+
+def build_json_schema() -> dict[str, object]:
+    """The build file's JSON Schema. TOML has no null, so optional fields are simply optional:
+    drop the ``null`` branch pydantic adds for ``X | None``."""
+
+    def strip_null(node: object) -> object:
+        if isinstance(node, dict):
+            options = node.get("anyOf")
+            if isinstance(options, list):
+                kept = [o for o in options if o != {"type": "null"}]
+                if len(kept) == 1 and len(kept) != len(options):
+                    merged = {k: v for k, v in node.items() if k != "anyOf"}
+                    merged.update(kept[0])
+                    node = merged
+            if isinstance(node, dict):
+                if node.get("default", 0) is None:
+                    node = {k: v for k, v in node.items() if k != "default"}
+                return {k: strip_null(v) for k, v in node.items()}
+        if isinstance(node, list):
+            return [strip_null(item) for item in node]
+        return node
+
+    schema = strip_null(Build.model_json_schema(by_alias=True))
+    assert isinstance(schema, dict)
+    schema["$schema"] = "https://json-schema.org/draft/2020-12/schema"
+    schema["title"] = "firstride build file"
+    return schema

@@ -159,10 +159,7 @@ def _rules(args: argparse.Namespace) -> int:
 
 
 def _schema() -> int:
-    from reviewer.build import Build
+    from reviewer.build import build_json_schema
 
-    schema = Build.model_json_schema(by_alias=True)
-    schema["$schema"] = "https://json-schema.org/draft/2020-12/schema"
-    schema["title"] = "firstride build file"
-    print(json.dumps(schema, indent=2, sort_keys=True))
+    print(json.dumps(build_json_schema(), indent=2, sort_keys=True))
     return EXIT_GO

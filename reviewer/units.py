@@ -145,7 +145,7 @@ class QuantityField:
             description += f"; accepted range {d.minimum:g} to {d.maximum:g} {d.unit}"
         return {
             "type": "string",
-            "pattern": _QUANTITY_RE.pattern,
+            "pattern": re.sub(r"\(\?P<\w+>", "(", _QUANTITY_RE.pattern),  # ECMA-262 form
             "maxLength": MAX_QUANTITY_TEXT,
             "examples": [d.example],
             "description": description,
