@@ -347,7 +347,7 @@ class Wire(_Model):
             return self.cross_section
         from reviewer.engineering.conductors import awg_area
 
-        return u.Quantity(awg_area(self.gauge or ""), "mm**2")
+        return u.quantity(awg_area(self.gauge or ""), "mm**2")
 
 
 class Fuse(_Model):

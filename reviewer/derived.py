@@ -12,6 +12,7 @@ from dataclasses import dataclass
 from reviewer.build import Battery, Build, Circuit, Motor, Wire
 from reviewer.engineering.cells import CELL_VOLTAGES, CellVoltages
 from reviewer.engineering.conductors import conductor_resistance
+from reviewer.units import unit
 
 
 @dataclass(frozen=True)
@@ -40,7 +41,7 @@ def pack_resistance(battery: Battery) -> float | None:
 
 
 def wire_resistance(wire: Wire, temperature_c: float = 20.0) -> float:
-    return conductor_resistance(wire.area.m_as("mm**2"), wire.length.m_as("m"), temperature_c)
+    return conductor_resistance(wire.area.m_as(unit("mm**2")), wire.length.m_as("m"), temperature_c)
 
 
 def motor_of(build: Build, wire: Wire) -> Motor | None:
@@ -115,3 +116,14 @@ def ambient_temperature(build: Build, default_c: float) -> float:
     if build.usage.ambient_temperature is not None:
         return build.usage.ambient_temperature.m_as("degC")
     return default_c
+
+
+def stall_currents(
+    voltage: float, shared_resistance: float, branch_resistance: dict[str, float]
+) -> tuple[float, dict[str, float]]:
+    """The stall_loop equations on what-if resistances (a heavier wire tried in a remedy):
+    returns the total current and each motor's, in A."""
+    conductance = sum(1 / r for r in branch_resistance.values())
+    total = voltage * conductance / (1 + shared_resistance * conductance)
+    across = voltage - total * shared_resistance
+    return total, {name: across / r for name, r in branch_resistance.items()}

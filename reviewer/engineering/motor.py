@@ -1,0 +1,116 @@
+"""A permanent-magnet DC motor as a straight torque-speed line (brushed, or brushless seen from
+its DC bus).
+
+The model is the textbook one: V = E + I R with back-EMF E = Ke w, torque T = Kt (I - I0), and
+Kt [N m/A] = Ke [V s/rad] = 60 / (2 pi Kv[rpm/V]) in SI units. A brushless motor driven by
+six-step commutation behaves the same way seen from the DC bus: two phases conduct at a time, so
+its terminal-to-terminal (line-to-line) resistance is the loop resistance and its Kv is quoted
+per DC volt. I0 (the no-load current) stands for friction and iron loss; the controller's current
+limit cuts the line off as a flat top at low speed.
+
+Speeds are in rad/s unless a name says rpm. Use cold (20 degC) resistance for peak current and
+hot resistance for heating.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import cached_property
+
+RPM_PER_RAD_S = 60.0 / (2.0 * math.pi)
+
+
+def rpm_to_rad_s(rpm: float) -> float:
+    return rpm / RPM_PER_RAD_S
+
+
+def rad_s_to_rpm(omega: float) -> float:
+    return omega * RPM_PER_RAD_S
+
+
+def torque_constant(kv_rpm_per_v: float) -> float:
+    """Kt in N m/A from Kv in rpm/V: 60 / (2 pi Kv) = 9.5493 / Kv. Equal to Ke in V s/rad."""
+    if kv_rpm_per_v <= 0:
+        raise ValueError("Kv must be positive")
+    return RPM_PER_RAD_S / kv_rpm_per_v
+
+
+def back_emf_constant(kv_rpm_per_v: float) -> float:
+    """Ke in V s/rad; in SI units it is the same number as Kt (energy balance E I = T w)."""
+    return torque_constant(kv_rpm_per_v)
+
+
+def stall_current(voltage: float, loop_resistance: float) -> float:
+    """Current with the rotor locked (no back-EMF): V / R_loop."""
+    if loop_resistance <= 0:
+        raise ValueError("loop resistance must be positive")
+    return voltage / loop_resistance
+
+
+def no_load_speed(
+    voltage: float, kv_rpm_per_v: float, loop_resistance: float = 0.0, no_load_current: float = 0.0
+) -> float:
+    """Free-running speed in rad/s: the back-EMF equals V less the drop of the no-load current."""
+    return max(voltage - no_load_current * loop_resistance, 0.0) / back_emf_constant(kv_rpm_per_v)
+
+
+def input_power(voltage: float, current: float) -> float:
+    """Electrical power drawn, V I, in W. Not the same as the winding's copper loss I^2 R."""
+    return voltage * current
+
+
+def copper_loss(current: float, resistance: float) -> float:
+    """Heat in the winding, I^2 R, in W; use the hot resistance for heating checks."""
+    return current * current * resistance
+
+
+@dataclass(frozen=True)
+class TorqueSpeedLine:
+    """One motor at a fixed effective voltage: current and shaft torque against speed.
+
+    ``current_limit`` of None means nothing limits the current below the stall current.
+    """
+
+    kv_rpm_per_v: float
+    voltage: float
+    loop_resistance: float
+    no_load_current: float = 0.0
+    current_limit: float | None = None
+
+    def __post_init__(self) -> None:
+        if self.loop_resistance <= 0:
+            raise ValueError("loop resistance must be positive")
+        if self.kv_rpm_per_v <= 0:
+            raise ValueError("Kv must be positive")
+
+    @cached_property
+    def kt(self) -> float:
+        return torque_constant(self.kv_rpm_per_v)
+
+    @cached_property
+    def ke(self) -> float:
+        return back_emf_constant(self.kv_rpm_per_v)
+
+    @property
+    def stall_current(self) -> float:
+        """Locked-rotor current before any current limit acts."""
+        return stall_current(self.voltage, self.loop_resistance)
+
+    @property
+    def no_load_speed(self) -> float:
+        """Speed in rad/s where the shaft torque falls to zero (friction included)."""
+        return no_load_speed(
+            self.voltage, self.kv_rpm_per_v, self.loop_resistance, self.no_load_current
+        )
+
+    def current(self, omega: float) -> float:
+        """I(w) = min((V - Ke w) / R, I_lim), in A."""
+        unlimited = (self.voltage - self.ke * omega) / self.loop_resistance
+        if self.current_limit is None:
+            return unlimited
+        return min(unlimited, self.current_limit)
+
+    def torque(self, omega: float) -> float:
+        """Shaft torque T = Kt (I - I0) in N m; negative above the no-load speed."""
+        return self.kt * (self.current(omega) - self.no_load_current)

@@ -1,0 +1,404 @@
+"""logic.pin-current: current on each logic pin, port group and package against the part's own
+datasheet limits, and inductive loads switched from logic."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterator
+from dataclasses import dataclass, field
+
+from reviewer.build import Build, Logic, PinLoad
+from reviewer.engineering.pins import (
+    allowed_current,
+    even_share,
+    pin_side_current,
+    worst_group_current,
+    worst_pin_current,
+)
+from reviewer.findings import (
+    Assumption,
+    Comparison,
+    DerivedFigure,
+    Finding,
+    Severity,
+    Source,
+    SourceStatus,
+)
+from reviewer.profile import Limit, Profile
+from reviewer.rule import Output, Rule
+from reviewer.units import Quantity, format_number, ureg
+
+MA = ureg.Unit("mA")  # a unit object, not a string: pint re-parses strings on every use
+DATASHEET = Source(
+    "The logic part's datasheet absolute maximum ratings, as entered in the build",
+    SourceStatus.USER,
+)
+INDUCTIVE_KICK = Source(
+    "Faraday's law, v = L di/dt: interrupting a coil's current with no freewheel path drives "
+    "its voltage far beyond the supply"
+)
+FLYBACK_PRACTICE = Source.from_memory(
+    "Horowitz and Hill, The Art of Electronics: a diode across a relay coil clamps the "
+    "turn-off spike; drive coils through a transistor switch"
+)
+COIL_REMEDY = (
+    "drive the coil through a logic-level MOSFET or NPN transistor and fit a flyback diode "
+    "across the coil"
+)
+SWITCH_REMEDY = "drive it through a logic-level MOSFET or NPN transistor"
+
+
+@dataclass
+class _Tally:
+    """Current on one pin: worst case (with imbalance), even share, and the loads on it."""
+
+    worst: float = 0.0
+    even: float = 0.0
+    loads: list[str] = field(default_factory=list)
+
+
+def check(build: Build, profile: Profile) -> Iterator[Output]:
+    """Current through each logic pin, port group and the package, and coils on logic pins.
+
+    The builder enters the logic part's own datasheet limits: ``logic.pin_current_max``
+    (absolute maximum per pin), ``logic.port_groups`` (pins sharing a supply rail, each with its
+    ``current_max``) and ``logic.total_current_max`` (the package), and the loads on its pins
+    (``logic.loads``: pins, current, inductive, flyback_diode, driver).
+
+    Pin-side current of a load: the whole load when ``driver`` is ``pin``; load / forced gain
+    (profile ``logic.transistor_forced_gain``) for a bipolar transistor's base; 0 for a MOSFET
+    gate or a driver IC's input (noted as an assumption).
+
+    Paralleled pins do not share evenly, so over n pins the worst pin is counted at
+    ``logic.parallel_pin_imbalance`` x I/n, capped at I; a port group holding k of the n pins
+    at imbalance x I k/n, capped at I. The package total is the plain sum of pin-side currents.
+    Each is compared with the datasheet maximum times the profile fraction
+    (``logic.pin_current_fraction`` for pins, ``logic.total_current_fraction`` for groups and
+    the package).
+
+    Severities
+      - stop: a pin, group or package over the datasheet absolute maximum itself; an inductive
+        load (relay coil) with no flyback diode (false or not stated), whatever drives it:
+        the turn-off spike lands on the driver.
+      - fix: over the derated limit; an inductive load driven straight from logic pins.
+      - advise: a load shared over paralleled pins (uneven sharing).
+      - pass: within the derated limits; a load with a suitable driver and diode.
+      - unassessed: no ``logic`` section, no ``logic.loads``, or no
+        ``logic.pin_current_max`` / ``logic.total_current_max`` (named in the finding).
+
+    Remedies give values: the per-pin ceiling, the current to move off a port group or the
+    package, and a MOSFET or transistor driver with a flyback diode for coils.
+    """
+    logic = build.logic
+    missing_limits = _missing_limits(logic)
+    if logic is None or not logic.loads:
+        yield Finding(
+            severity=Severity.UNASSESSED,
+            subject="logic pins",
+            rationale="No logic part with loads on its pins is described, so pin currents "
+            "could not be checked.",
+            sources=(DATASHEET,),
+            missing=("logic.loads", *missing_limits),
+        )
+        return
+    pin_fraction = _number(profile.limit("logic.pin_current_fraction"))
+    total_fraction = _number(profile.limit("logic.total_current_fraction"))
+    imbalance_limit = profile.limit("logic.parallel_pin_imbalance")
+    imbalance = _number(imbalance_limit)
+    gain = _number(profile.limit("logic.transistor_forced_gain"))
+
+    drawn: dict[str, float] = {}
+    for load in logic.loads:
+        drawn[load.name] = pin_side_current(load.current.m_as(MA), load.driver, gain)
+    yield from _driver_assumptions(logic)
+
+    for load in logic.loads:
+        yield _load_finding(load, drawn[load.name], imbalance, imbalance_limit)
+
+    tallies = _pin_tallies(logic, drawn, imbalance)
+    yield from _pin_findings(logic, tallies, pin_fraction, profile, imbalance)
+    yield from _group_findings(logic, drawn, imbalance, total_fraction, profile)
+    yield from _total_finding(logic, drawn, total_fraction, profile)
+
+
+def _missing_limits(logic: Logic | None) -> tuple[str, ...]:
+    names = []
+    if logic is None or logic.pin_current_max is None:
+        names.append("logic.pin_current_max")
+    if logic is None or logic.total_current_max is None:
+        names.append("logic.total_current_max")
+    return tuple(names)
+
+
+def _number(limit: Limit) -> float:
+    value = limit.value
+    if isinstance(value, bool | str):
+        raise TypeError(f"profile limit {limit.key} must be a number")
+    if isinstance(value, float | int):
+        return float(value)
+    return float(value.m_as("dimensionless"))
+
+
+def _mA(value: float) -> str:
+    return f"{format_number(value)} mA"
+
+
+def _excess(measured: float, allowed: float) -> int:
+    """Whole milliamps to move so the measured current comes within the allowed one."""
+    return max(1, math.ceil(round(measured - allowed, 6)))
+
+
+def _names(loads: list[str]) -> str:
+    return ", ".join(f"'{name}'" for name in loads)
+
+
+def _pins(load: PinLoad) -> list[str]:
+    return list(dict.fromkeys(load.pins))  # a pin named twice is still one pin
+
+
+def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
+    drivers = {load.driver for load in logic.loads}
+    if "transistor" in drivers:
+        yield Assumption(
+            "A transistor-driven load draws its collector current / forced gain from the logic "
+            "pin (saturated switch).",
+            FLYBACK_PRACTICE,
+        )
+    if drivers & {"mosfet", "driver-ic"}:
+        yield Assumption(
+            "A MOSFET gate or driver-IC input is taken to draw no steady current from its "
+            "logic pin."
+        )
+
+
+def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit: Limit) -> Finding:
+    subject = f"load '{load.name}'"
+    pins = _pins(load)
+    current = load.current.m_as(MA)
+    issues: list[tuple[Severity, str]] = []
+    remedies: list[str] = []
+    sources: list[Source] = []
+    diode_rating = f"rated for at least {_mA(current)} and the coil's supply voltage"
+    if load.inductive and load.flyback_diode is not True:
+        stated = "is not stated" if load.flyback_diode is None else "is absent"
+        issues.append(
+            (
+                Severity.STOP,
+                f"It is inductive and its flyback diode {stated}: at turn-off the coil's "
+                f"{_mA(current)} has no path and its voltage spikes onto the {load.driver}.",
+            )
+        )
+        sources += [INDUCTIVE_KICK, FLYBACK_PRACTICE]
+    if load.inductive and load.driver == "pin":
+        issues.append(
+            (Severity.FIX, f"The coil is driven straight from logic pin(s) {', '.join(pins)}.")
+        )
+        remedies.append(f"{COIL_REMEDY} ({diode_rating})")
+        sources.append(FLYBACK_PRACTICE)
+    elif load.inductive and load.flyback_diode is not True:
+        remedies.append(f"fit a flyback diode across the coil ({diode_rating})")
+    if len(pins) > 1:
+        share = even_share(drawn, len(pins))
+        worst = worst_pin_current(drawn, len(pins), imbalance)
+        issues.append(
+            (
+                Severity.ADVISE,
+                f"It is shared over {len(pins)} paralleled pins ({', '.join(pins)}), which do "
+                f"not share evenly: one pin may carry {_mA(worst)} rather than the even "
+                f"{_mA(share)}.",
+            )
+        )
+        if not (load.inductive and load.driver == "pin"):
+            remedies.append(f"drive '{load.name}' from one pin and {SWITCH_REMEDY}")
+        sources.append(imbalance_limit.source)
+    if not issues:
+        return Finding(
+            severity=Severity.PASS,
+            subject=subject,
+            rationale=f"{_mA(current)} load driven by {_driver_words(load)} on "
+            f"{', '.join(pins)}{'; flyback diode fitted' if load.inductive else ''}.",
+            measured=Quantity(drawn, MA),
+            sources=(DATASHEET,),
+        )
+    severity = min((s for s, _ in issues), key=lambda s: s.rank)
+    return Finding(
+        severity=severity,
+        subject=subject,
+        rationale=f"{_mA(current)} load driven by {_driver_words(load)}. "
+        + " ".join(text for _, text in issues),
+        measured=Quantity(drawn, MA),
+        remedy="; ".join(remedies) or None,
+        sources=tuple(dict.fromkeys(sources)),
+    )
+
+
+def _driver_words(load: PinLoad) -> str:
+    return {
+        "pin": "logic pins directly",
+        "transistor": "a transistor",
+        "mosfet": "a MOSFET",
+        "driver-ic": "a driver IC",
+    }[load.driver]
+
+
+def _pin_tallies(logic: Logic, drawn: dict[str, float], imbalance: float) -> dict[str, _Tally]:
+    tallies: dict[str, _Tally] = {}
+    for load in logic.loads:
+        pins = _pins(load)
+        worst = worst_pin_current(drawn[load.name], len(pins), imbalance)
+        share = even_share(drawn[load.name], len(pins))
+        for pin in pins:
+            tally = tallies.setdefault(pin, _Tally())
+            tally.worst += worst
+            tally.even += share
+            tally.loads.append(load.name)
+    return tallies
+
+
+def _grade(measured: float, maximum: float, allowed: float) -> Severity:
+    if measured > maximum:
+        return Severity.STOP
+    if measured > allowed:
+        return Severity.FIX
+    return Severity.PASS
+
+
+def _pin_findings(
+    logic: Logic, tallies: dict[str, _Tally], fraction: float, profile: Profile, imbalance: float
+) -> Iterator[Finding]:
+    if logic.pin_current_max is None:
+        yield Finding(
+            severity=Severity.UNASSESSED,
+            subject="each pin",
+            rationale="The part's per-pin absolute maximum current is not given.",
+            sources=(DATASHEET,),
+            missing=("logic.pin_current_max",),
+        )
+        return
+    maximum = logic.pin_current_max.m_as(MA)
+    allowed = allowed_current(maximum, fraction)
+    sources = (DATASHEET, profile.limit("logic.pin_current_fraction").source)
+    for pin, tally in tallies.items():
+        severity = _grade(tally.worst, maximum, allowed)
+        uneven = (
+            f" (even share {_mA(tally.even)}, x{format_number(imbalance)} for paralleled pins)"
+            if tally.worst > tally.even
+            else ""
+        )
+        rationale = (
+            f"Pin {pin} carries up to {_mA(tally.worst)}{uneven} for "
+            f"{_names(tally.loads)}; the datasheet maximum is "
+            f"{_mA(maximum)} and the profile keeps pins at or below "
+            f"{format_number(fraction * 100)} % of it, {_mA(allowed)}."
+        )
+        remedy = None
+        if severity is not Severity.PASS:
+            excess = _excess(tally.worst, allowed)
+            remedy = (
+                f"keep each pin at or below {_mA(allowed)}: move {excess} mA off pin {pin}, "
+                f"e.g. drive {_names(tally.loads)} through a logic-level MOSFET or NPN "
+                "transistor"
+            )
+        yield Finding(
+            severity=severity,
+            subject=f"pin {pin}",
+            rationale=rationale,
+            measured=Quantity(tally.worst, MA),
+            limit=Quantity(allowed, MA),
+            comparison=Comparison.AT_MOST,
+            remedy=remedy,
+            sources=sources,
+        )
+
+
+def _group_findings(
+    logic: Logic, drawn: dict[str, float], imbalance: float, fraction: float, profile: Profile
+) -> Iterator[Finding]:
+    sources = (DATASHEET, profile.limit("logic.total_current_fraction").source)
+    for group in logic.port_groups:
+        members = set(group.pins)
+        current = 0.0
+        for load in logic.loads:
+            pins = _pins(load)
+            inside = sum(1 for pin in pins if pin in members)
+            current += worst_group_current(drawn[load.name], inside, len(pins), imbalance)
+        maximum = group.current_max.m_as(MA)
+        allowed = allowed_current(maximum, fraction)
+        severity = _grade(current, maximum, allowed)
+        remedy = None
+        if severity is not Severity.PASS:
+            remedy = (
+                f"move {_excess(current, allowed)} mA off port group {group.name} "
+                f"(keep it at or below {_mA(allowed)}), e.g. onto another group or through "
+                "a transistor or MOSFET driver"
+            )
+        yield Finding(
+            severity=severity,
+            subject=f"port group {group.name}",
+            rationale=f"Port group {group.name} carries up to {_mA(current)}, counting "
+            f"uneven sharing of loads split across groups; its datasheet maximum is "
+            f"{_mA(maximum)} and the profile allows {format_number(fraction * 100)} % of it, "
+            f"{_mA(allowed)}.",
+            measured=Quantity(current, MA),
+            limit=Quantity(allowed, MA),
+            remedy=remedy,
+            sources=sources,
+        )
+
+
+def _total_finding(
+    logic: Logic, drawn: dict[str, float], fraction: float, profile: Profile
+) -> Iterator[Output]:
+    total = sum(drawn.values())
+    yield DerivedFigure("logic pins, total current", Quantity(total, MA), order=80)
+    if logic.total_current_max is None:
+        yield Finding(
+            severity=Severity.UNASSESSED,
+            subject="package total",
+            rationale=f"The loads draw {_mA(total)} from the part's pins in all, but its "
+            "total (package) maximum current is not given.",
+            sources=(DATASHEET,),
+            missing=("logic.total_current_max",),
+        )
+        return
+    maximum = logic.total_current_max.m_as(MA)
+    allowed = allowed_current(maximum, fraction)
+    severity = _grade(total, maximum, allowed)
+    remedy = None
+    if severity is not Severity.PASS:
+        remedy = (
+            f"move {_excess(total, allowed)} mA of load off the part's pins (keep the "
+            f"package at or below {_mA(allowed)}): {SWITCH_REMEDY}"
+        )
+    yield Finding(
+        severity=severity,
+        subject="package total",
+        rationale=f"The loads draw {_mA(total)} from the part's pins in all; its datasheet "
+        f"maximum is {_mA(maximum)} and the profile allows {format_number(fraction * 100)} % "
+        f"of it, {_mA(allowed)}.",
+        measured=Quantity(total, MA),
+        limit=Quantity(allowed, MA),
+        remedy=remedy,
+        sources=(DATASHEET, profile.limit("logic.total_current_fraction").source),
+    )
+
+
+RULE = Rule(
+    id="logic.pin-current",
+    title="Logic pin, port and package current",
+    check=check,
+    sources=(DATASHEET, INDUCTIVE_KICK, FLYBACK_PRACTICE),
+    inputs=(
+        "logic.pin_current_max",
+        "logic.total_current_max",
+        "logic.port_groups",
+        "logic.loads",
+    ),
+    severities=(
+        Severity.STOP,
+        Severity.FIX,
+        Severity.ADVISE,
+        Severity.PASS,
+        Severity.UNASSESSED,
+    ),
+)

@@ -1,0 +1,386 @@
+"""speed.rider-class: the top speed each rider reaches on the flat, against the limit for the
+rider's class. A light rider is the fastest, so every rider is checked, not an average one."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+import pint
+
+from reviewer import derived
+from reviewer import units as u
+from reviewer.build import Build, Motor, Rider, RiderClass
+from reviewer.engineering.motor import rad_s_to_rpm, torque_constant
+from reviewer.engineering.roadload import (
+    Drive,
+    DriveMotor,
+    highest_duty_within,
+    kinetic_energy,
+    largest_pulley_within,
+    ms_to_kmh,
+    smallest_reduction_within,
+    stopping_distance,
+)
+from reviewer.findings import Assumption, DerivedFigure, Finding, Severity, Source
+from reviewer.profile import Limit, Profile
+from reviewer.rule import Output, Rule
+
+KT_DEFINITION = Source("SI definition of the motor constants: Kt = Ke = 60 / (2 pi Kv)")
+MOTOR_MODEL = Source.from_memory(
+    "Chapman, Electric Machinery Fundamentals: DC motor torque-speed line V = Ke w + I R, "
+    "T = Kt (I - I0)"
+)
+ROAD_LOAD = Source(
+    "Road load F = m g (Crr cos(theta) + sin(theta)) + 0.5 rho CdA v^2; "
+    "rho 1.225 kg/m^3 (ISA sea level), g 9.80665 m/s^2 (CGPM)"
+)
+ADULT_STOP_SOURCE = Source.common_practice(
+    "An adult rider more than 20 % over the speed limit is a stop; a youth or child rider over "
+    "it at all is a stop"
+)
+# An adult over the limit by more than this share is a stop rather than a fix (common practice).
+ADULT_STOP_EXCESS = 0.20
+_TOLERANCE_MS = 1e-9
+_MAX_REDUCTION = 100.0  # the build model's bound on drivetrain.ratio
+# Units parsed once: building quantities from unit text costs far more than the physics.
+_A = u.ureg.Unit("A")
+_KG = u.ureg.Unit("kg")
+_KJ = u.ureg.Unit("kJ")
+_KMH = u.ureg.Unit("km/h")
+_M = u.ureg.Unit("m")
+_M2 = u.ureg.Unit("m**2")
+_MS2 = u.ureg.Unit("m/s**2")
+_NM_PER_A = u.ureg.Unit("N*m/A")
+_MM = u.ureg.Unit("mm")
+_PERCENT = u.ureg.Unit("percent")
+_RPM = u.ureg.Unit("rpm")
+_RPM_PER_V = u.ureg.Unit("rpm/V")
+_V = u.ureg.Unit("V")
+
+
+def check(build: Build, profile: Profile) -> Iterator[Output]:
+    """Top speed on the flat for each rider, against the profile's limit for the rider's class.
+
+    What it checks
+      Each rider (``riders[].mass``, ``riders[].class``: adult, youth or child) on the vehicle
+      (``vehicle.mass``). The lightest rider is the fastest: rolling resistance grows with mass,
+      so every rider gets a finding of their own.
+
+    Formula
+      Each motor is a torque-speed line at the pack's full voltage (``battery``) times
+      ``controller.max_duty`` (100 % if unset): I(w) = min((V - Ke w) / R, I_lim),
+      T = Kt (I - I0), Kt = Ke = 60 / (2 pi Kv) (``motors[].kv``, or no-load speed over rated
+      voltage; ``motors[].no_load_current``, 0 if unset: the fast side). R is the loop at
+      20 degC: winding (``motors[].winding_resistance``), switch and the motor's own wires, plus
+      the pack and battery wiring they share (``wires``, ``battery.cell_internal_resistance``),
+      counted once per motor and duty^2 times (averaged PWM; exact for identical motors). I_lim is
+      ``controller.current_limit`` (none if unset). Wheel force is the sum over motors of
+      T x reduction x efficiency / wheel radius (``drivetrain.ratio`` or pulley teeth,
+      ``drivetrain.wheel_diameter``, ``drivetrain.efficiency``, 100 % if unset: again the fast
+      side). Top speed is the root of wheel force = road load
+      m g Crr + 0.5 rho CdA v^2 (flat, still air, rho 1.225 kg/m^3, g 9.80665 m/s^2), with Crr
+      and CdA from ``usage.rolling_resistance`` and ``usage.drag_area`` or the profile's
+      defaults (flagged as assumptions). Kinetic energy 0.5 m v^2 and stopping distance
+      v^2 / (2 a) at the profile's ``speed.reference_deceleration`` are reported.
+
+    Severities
+      - stop: a youth or child rider over the class limit (``speed.max_speed.youth`` /
+        ``.child``); an adult more than 20 % over ``speed.max_speed.adult``.
+      - fix: an adult over the limit by 20 % or less.
+      - pass: at or below the limit.
+      - unassessed: riders, vehicle mass, battery, motors with Kv and winding resistance,
+        reduction or wheel diameter absent (each named).
+
+    The remedy gives the largest motor pulley smaller than the present one (or the smallest
+    reduction above the present one) and the highest whole-percent max duty that each bring this
+    rider's top speed within the limit, re-solved with the same model. A smaller pulley also
+    gives more wheel torque; a larger one can lower the top speed of a current-limited drive
+    too, but at the cost of torque, so it is not offered.
+    """
+    missing = _missing(build)
+    if not build.riders:
+        yield Finding(
+            severity=Severity.UNASSESSED,
+            subject="riders",
+            rationale="The build lists no rider, so no top speed can be compared with a limit.",
+            missing=("riders", *missing),
+        )
+        return
+    if missing:
+        for rider in build.riders:
+            yield Finding(
+                severity=Severity.UNASSESSED,
+                subject=f"rider '{rider.name}'",
+                rationale=(
+                    "The top speed needs the vehicle's mass, the pack, each motor's Kv and "
+                    "winding resistance, the reduction (ratio or pulley teeth) and the wheel "
+                    "diameter."
+                ),
+                missing=missing,
+                sources=(MOTOR_MODEL, ROAD_LOAD),
+            )
+        return
+    drive, assumptions = _drive(build, profile)
+    yield from assumptions
+    yield from _motor_figures(build, drive)
+    deceleration = profile.limit("speed.reference_deceleration")
+    for rider in build.riders:
+        yield from _check_rider(build, drive, rider, profile, deceleration)
+
+
+def _missing(build: Build) -> tuple[str, ...]:
+    missing: list[str] = []
+    if build.vehicle.mass is None:
+        missing.append("vehicle.mass")
+    if build.battery is None:
+        missing.append("battery")
+    if not build.motors:
+        missing.append("motors")
+    for index, motor in enumerate(build.motors):
+        if _kv(motor) is None:
+            missing.append(f"motors[{index}].kv")
+        if motor.winding_resistance is None:
+            missing.append(f"motors[{index}].winding_resistance")
+    drivetrain = build.drivetrain
+    if drivetrain is None or drivetrain.reduction is None:
+        missing.append("drivetrain.ratio")
+    if drivetrain is None or drivetrain.wheel_diameter is None:
+        missing.append("drivetrain.wheel_diameter")
+    return tuple(missing)
+
+
+def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
+    """Magnitude in ``unit``; build fields already sit in their fixed unit, so skip pint's
+    conversion (the slow part of a review) when they do."""
+    if quantity.units == unit:
+        return float(quantity.magnitude)
+    return float(quantity.m_as(unit))
+
+
+def _kv(motor: Motor) -> float | None:
+    """Kv in rpm/V: given, or no-load speed over rated voltage (as ``Motor.effective_kv``, in
+    floats: this runs once per review and pint division is slow)."""
+    if motor.kv is not None:
+        return _in(motor.kv, _RPM_PER_V)
+    if motor.no_load_speed is not None and motor.rated_voltage is not None:
+        return _in(motor.no_load_speed, _RPM) / _in(motor.rated_voltage, _V)
+    return None
+
+
+def _drive(build: Build, profile: Profile) -> tuple[Drive, list[Assumption]]:
+    assert build.battery is not None and build.drivetrain is not None
+    assert build.vehicle.mass is not None and build.drivetrain.wheel_diameter is not None
+    assert build.drivetrain.reduction is not None
+    loop = derived.stall_loop(build)
+    assert loop is not None
+    notes = [
+        Assumption(
+            "Top speed is solved on flat ground in still air at sea-level air density.",
+            ROAD_LOAD,
+        )
+    ]
+    motors = []
+    for motor in build.motors:
+        kv = _kv(motor)
+        assert kv is not None
+        no_load = 0.0
+        if motor.no_load_current is None:
+            notes.append(
+                Assumption(
+                    f"Motor '{motor.name}': no-load current not given, taken as 0 A "
+                    "(no friction), which errs on the fast side."
+                )
+            )
+        else:
+            no_load = _in(motor.no_load_current, _A)
+        motors.append(DriveMotor(kv, loop.branch_resistance[motor.name], no_load))
+    usage = build.usage
+    if usage.rolling_resistance is not None:
+        crr = usage.rolling_resistance
+    else:
+        limit = profile.limit("usage.default_rolling_resistance")
+        crr = float(limit.value)  # type: ignore[arg-type]
+        notes.append(Assumption(f"Rolling resistance not given: Crr {crr:g} taken.", limit.source))
+    if usage.drag_area is not None:
+        drag_area = _in(usage.drag_area, _M2)
+    else:
+        limit = profile.limit("usage.default_drag_area")
+        drag_area = _in(limit.quantity, _M2)
+        notes.append(Assumption(f"Drag area not given: CdA {drag_area:g} m² taken.", limit.source))
+    efficiency = 1.0
+    if build.drivetrain.efficiency is not None:
+        efficiency = _in(build.drivetrain.efficiency, _PERCENT) / 100.0
+    else:
+        notes.append(
+            Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")
+        )
+    duty = 1.0
+    if build.controller is not None and build.controller.max_duty is not None:
+        duty = _in(build.controller.max_duty, _PERCENT) / 100.0
+    drive = Drive(
+        motors=tuple(motors),
+        full_voltage=loop.voltage,
+        reduction=build.drivetrain.reduction,
+        wheel_radius=_in(build.drivetrain.wheel_diameter, _MM) / 2000.0,
+        rolling_resistance=crr,
+        drag_area=drag_area,
+        shared_resistance=loop.shared_resistance,
+        duty=duty,
+        current_limit=derived.current_limit(build),
+        efficiency=efficiency,
+    )
+    return drive, notes
+
+
+def _motor_figures(build: Build, drive: Drive) -> Iterator[DerivedFigure]:
+    for motor, line in zip(build.motors, drive.lines(1.0), strict=True):
+        name = f"motor '{motor.name}'"
+        kv = line.kv_rpm_per_v
+        yield DerivedFigure(f"Kv, {name}", u.Quantity(kv, _RPM_PER_V), order=30)
+        yield DerivedFigure(
+            f"Kt, {name}",
+            u.Quantity(torque_constant(kv), _NM_PER_A),
+            note="60 / (2 pi Kv); equal to Ke in V s/rad",
+            order=31,
+        )
+        yield DerivedFigure(
+            f"no-load speed at full voltage, {name}",
+            u.Quantity(rad_s_to_rpm(line.no_load_speed), _RPM),
+            note=f"pack full {u.format_number(drive.full_voltage)} V, before any max duty",
+            order=32,
+        )
+
+
+def _check_rider(
+    build: Build, drive: Drive, rider: Rider, profile: Profile, deceleration: Limit
+) -> Iterator[Output]:
+    f = u.format_number
+    limit = profile.limit(f"speed.max_speed.{rider.rider_class.value}")
+    limit_ms = _in(limit.quantity, _KMH) / 3.6
+    rider_mass = _in(rider.mass, _KG)
+    assert build.vehicle.mass is not None
+    mass = rider_mass + _in(build.vehicle.mass, _KG)
+    speed = drive.top_speed(mass)
+    energy = kinetic_energy(mass, speed)
+    decel = _in(deceleration.quantity, _MS2)
+    distance = stopping_distance(speed, decel)
+    subject = f"rider '{rider.name}'"
+    yield DerivedFigure(f"top speed, {subject}", u.Quantity(ms_to_kmh(speed), _KMH), order=33)
+    yield DerivedFigure(
+        f"kinetic energy at top speed, {subject}",
+        u.Quantity(energy / 1000.0, _KJ),
+        note="rider and vehicle",
+        order=34,
+    )
+    yield DerivedFigure(
+        f"stopping distance from top speed, {subject}",
+        u.Quantity(distance, _M),
+        note=f"at {f(decel)} m/s²",
+        order=35,
+    )
+
+    over = speed > limit_ms + _TOLERANCE_MS
+    if not over:
+        severity = Severity.PASS
+    elif (
+        rider.rider_class is not RiderClass.ADULT
+        or speed > limit_ms * (1.0 + ADULT_STOP_EXCESS) + _TOLERANCE_MS
+    ):
+        severity = Severity.STOP
+    else:
+        severity = Severity.FIX
+    duty_text = "" if drive.duty >= 1.0 else f" at {drive.duty:.0%} max duty"
+    rationale = (
+        f"{rider.name} ({rider.rider_class.value}, {f(rider_mass)} kg; {f(mass)} kg with the "
+        f"vehicle) reaches {f(ms_to_kmh(speed))} km/h on the flat on the full "
+        f"{f(drive.full_voltage)} V pack{duty_text}, against the {f(ms_to_kmh(limit_ms))} km/h "
+        f"{rider.rider_class.value} limit. At that speed rider and vehicle carry "
+        f"{f(energy / 1000.0)} kJ and need {f(distance)} m to stop at {f(decel)} m/s²."
+    )
+    yield Finding(
+        severity=severity,
+        subject=subject,
+        rationale=rationale,
+        measured=u.Quantity(ms_to_kmh(speed), _KMH),
+        limit=u.Quantity(ms_to_kmh(limit_ms), _KMH),
+        remedy=None if severity is Severity.PASS else _remedy(build, drive, mass, limit_ms),
+        sources=(
+            limit.source,
+            ADULT_STOP_SOURCE,
+            KT_DEFINITION,
+            MOTOR_MODEL,
+            ROAD_LOAD,
+            deceleration.source,
+        ),
+    )
+
+
+def _remedy(build: Build, drive: Drive, mass: float, limit_ms: float) -> str:
+    options = [_gearing_remedy(build, drive, mass, limit_ms), _duty_remedy(drive, mass, limit_ms)]
+    texts = [text for text in options if text]
+    if not texts:
+        return (
+            f"bring the top speed to {u.format_number(ms_to_kmh(limit_ms))} km/h or below with "
+            "a lower-voltage pack or a speed limit in the controller"
+        )
+    return ", or ".join(texts)
+
+
+def _gearing_remedy(build: Build, drive: Drive, mass: float, limit_ms: float) -> str | None:
+    f = u.format_number
+    drivetrain = build.drivetrain
+    assert drivetrain is not None
+    if drivetrain.motor_pulley_teeth and drivetrain.wheel_pulley_teeth:
+        wheel_teeth = drivetrain.wheel_pulley_teeth
+        teeth = largest_pulley_within(
+            drive, mass, limit_ms, drivetrain.motor_pulley_teeth, wheel_teeth
+        )
+        if teeth is None:
+            return None
+        speed = drive.top_speed(mass, reduction=wheel_teeth / teeth)
+        return (
+            f"fit a motor pulley of {teeth} teeth or fewer with the {wheel_teeth}-tooth "
+            f"wheel pulley ({f(ms_to_kmh(speed))} km/h)"
+        )
+    reduction = smallest_reduction_within(drive, mass, limit_ms, _MAX_REDUCTION)
+    if reduction is None:
+        return None
+    speed = drive.top_speed(mass, reduction=reduction)
+    return (
+        f"use a reduction of at least {reduction:.2f}:1 motor turns per wheel turn "
+        f"({f(ms_to_kmh(speed))} km/h)"
+    )
+
+
+def _duty_remedy(drive: Drive, mass: float, limit_ms: float) -> str | None:
+    percent = highest_duty_within(drive, mass, limit_ms)
+    if percent is None:
+        return None
+    speed = drive.top_speed(mass, duty=percent / 100.0)
+    return (
+        f"set the controller's max duty (speed setting) at or below {percent} % "
+        f"({u.format_number(ms_to_kmh(speed))} km/h)"
+    )
+
+
+RULE = Rule(
+    id="speed.rider-class",
+    title="Top speed for each rider's class",
+    check=check,
+    sources=(KT_DEFINITION, MOTOR_MODEL, ROAD_LOAD, ADULT_STOP_SOURCE),
+    inputs=(
+        "riders",
+        "vehicle.mass",
+        "battery",
+        "motors[].kv",
+        "motors[].winding_resistance",
+        "motors[].no_load_current",
+        "controller.current_limit",
+        "controller.max_duty",
+        "drivetrain",
+        "usage.rolling_resistance",
+        "usage.drag_area",
+        "wires",
+    ),
+    severities=(Severity.STOP, Severity.FIX, Severity.PASS, Severity.UNASSESSED),
+)
