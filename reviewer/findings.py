@@ -91,8 +91,12 @@ class Finding:
 
     @property
     def margin(self) -> float | None:
-        """Headroom as a fraction of the limit: positive within, negative beyond."""
-        if self.measured is None or self.limit is None:
+        """Headroom as a fraction of the limit: positive within, negative beyond.
+
+        None for temperatures on an offset scale (degC), where a ratio means nothing; the
+        review shows :attr:`headroom` in kelvin for those instead.
+        """
+        if self.measured is None or self.limit is None or _is_offset(self.limit):
             return None
         limit = float(self.limit.to_base_units().magnitude)
         measured = float(self.measured.to(self.limit.units).to_base_units().magnitude)
@@ -103,8 +107,26 @@ class Finding:
         return (measured - limit) / abs(limit)
 
     @property
+    def headroom(self) -> pint.Quantity | None:
+        """Limit minus measured (measured minus limit for an at-least check), in the limit's
+        unit; a temperature difference comes out in kelvin."""
+        if self.measured is None or self.limit is None:
+            return None
+        if _is_offset(self.limit):
+            limit = self.limit.to("kelvin").magnitude
+            measured = self.measured.to("kelvin").magnitude
+            sign = 1 if self.comparison is Comparison.AT_MOST else -1
+            return type(self.limit)(sign * (limit - measured), "kelvin")
+        difference = self.limit - self.measured.to(self.limit.units)
+        return difference if self.comparison is Comparison.AT_MOST else -difference
+
+    @property
     def sort_key(self) -> tuple[int, str, str]:
         return (self.severity.rank, self.rule_id, self.subject)
+
+
+def _is_offset(quantity: pint.Quantity) -> bool:
+    return not quantity._is_multiplicative
 
 
 class Verdict(enum.Enum):

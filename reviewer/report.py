@@ -65,7 +65,11 @@ def _quantity(value: Any) -> str:
 def _margin(finding: Finding) -> str:
     margin = finding.margin
     if margin is None:
-        return Raw("n/a")
+        headroom = finding.headroom
+        if headroom is None:
+            return Raw("n/a")
+        sign = "+" if headroom.magnitude >= 0 else ""
+        return Raw(f"{sign}{format_quantity(headroom)}")
     return Raw(f"{'+' if margin >= 0 else ''}{format_number(margin * 100, 3)} %")
 
 
