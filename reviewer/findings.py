@@ -79,8 +79,8 @@ class Finding:
     severity: Severity
     subject: str
     rationale: str
-    measured: pint.Quantity | None = None
-    limit: pint.Quantity | None = None
+    measured: pint.Quantity | str | None = None  # text for codes such as "IP54"
+    limit: pint.Quantity | str | None = None
     comparison: Comparison = Comparison.AT_MOST
     remedy: str | None = None
     sources: tuple[Source, ...] = ()
@@ -96,7 +96,7 @@ class Finding:
         None for temperatures on an offset scale (degC), where a ratio means nothing; the
         review shows :attr:`headroom` in kelvin for those instead.
         """
-        if self.measured is None or self.limit is None or _is_offset(self.limit):
+        if not _both_quantities(self.measured, self.limit) or _is_offset(self.limit):
             return None
         limit = float(self.limit.to_base_units().magnitude)
         measured = float(self.measured.to(self.limit.units).to_base_units().magnitude)
@@ -110,7 +110,7 @@ class Finding:
     def headroom(self) -> pint.Quantity | None:
         """Limit minus measured (measured minus limit for an at-least check), in the limit's
         unit; a temperature difference comes out in kelvin."""
-        if self.measured is None or self.limit is None:
+        if not _both_quantities(self.measured, self.limit):
             return None
         if _is_offset(self.limit):
             limit = self.limit.to("kelvin").magnitude
@@ -123,6 +123,10 @@ class Finding:
     @property
     def sort_key(self) -> tuple[int, str, str]:
         return (self.severity.rank, self.rule_id, self.subject)
+
+
+def _both_quantities(measured: object, limit: object) -> bool:
+    return isinstance(measured, pint.Quantity) and isinstance(limit, pint.Quantity)
 
 
 def _is_offset(quantity: pint.Quantity) -> bool:

@@ -77,6 +77,8 @@ def _limit(finding: Finding) -> str:
     if finding.limit is None:
         return Raw("n/a")
     word = "≤" if finding.comparison is Comparison.AT_MOST else "≥"
+    if isinstance(finding.limit, str):
+        return f"{word} {finding.limit}"  # text: escaped on output
     return Raw(f"{word} {format_quantity(finding.limit)}")
 
 

@@ -13,7 +13,7 @@ from reviewer.engineering.ingress import (
     parse_ip_code,
     required_code_text,
 )
-from reviewer.findings import Assumption, DerivedFigure, Finding, Severity, Source
+from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Limit, Profile
 from reviewer.rule import Output, Rule
 
@@ -139,6 +139,9 @@ def _ip_finding(
             severity=Severity.PASS,
             subject=subject,
             rationale=f"The {subject} is {code.text} ({describe_code(code)}). {needs}.",
+            measured=code.text,
+            limit=minimum.text,
+            comparison=Comparison.AT_LEAST,
             sources=sources,
         )
     shortfalls = []
@@ -163,6 +166,9 @@ def _ip_finding(
         severity=severity,
         subject=subject,
         rationale=rationale,
+        measured=code.text,
+        limit=minimum.text,
+        comparison=Comparison.AT_LEAST,
         remedy=f"fit {required_code_text(minimum)}",
         sources=sources,
     )

@@ -1,0 +1,75 @@
+"""The shipped samples give go / no-go / incomplete with the right exit codes, deterministically."""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from reviewer.cli import main
+from reviewer.findings import Severity
+
+from .conftest import SAMPLES
+
+EXPECTED = {
+    "quayside-commuter.toml": ("go", 0),
+    "garage-sprint-board.toml": ("no-go", 1),
+    "unfinished-yard-kart.toml": ("incomplete", 1),
+}
+
+
+@pytest.mark.parametrize("name", sorted(EXPECTED))
+def test_sample_verdict_and_exit_code(name: str, tmp_path: Path, capsys) -> None:
+    verdict, code = EXPECTED[name]
+    output = tmp_path / "review.md"
+    assert main(["review", str(SAMPLES / name), "-o", str(output)]) == code
+    assert f"verdict {verdict}" in capsys.readouterr().err
+    assert f"**Verdict: {verdict.upper()}**" in output.read_text()
+
+
+def test_no_go_sample_has_stops_from_at_least_three_core_rules() -> None:
+    from reviewer.engine import review
+    from reviewer.loader import load_build
+    from reviewer.plugins import default_manager
+    from reviewer.profile import load_profile
+
+    loaded = load_build(SAMPLES / "garage-sprint-board.toml")
+    result = review(loaded.build, load_profile(), default_manager().rules())
+    core = {
+        "wiring.stall-current",
+        "motor.cooling",
+        "speed.rider-class",
+        "enclosure.ingress",
+        "logic.pin-current",
+    }
+    stopping = {f.rule_id for f in result.findings if f.severity is Severity.STOP}
+    assert len(stopping & core) >= 3, stopping
+
+
+def test_review_is_byte_for_byte_deterministic(tmp_path: Path) -> None:
+    sample = SAMPLES / "garage-sprint-board.toml"
+    first, second = tmp_path / "a.md", tmp_path / "b.md"
+    main(["review", str(sample), "-o", str(first)])
+    main(["review", str(sample), "-o", str(second)])
+    assert first.read_bytes() == second.read_bytes()
+
+
+def test_fail_on_threshold(tmp_path: Path) -> None:
+    go = str(SAMPLES / "quayside-commuter.toml")
+    incomplete = str(SAMPLES / "unfinished-yard-kart.toml")
+    assert main(["review", go, "--fail-on", "stop", "-o", str(tmp_path / "x.md")]) == 0
+    # an incomplete review always fails, whatever the threshold
+    assert main(["review", incomplete, "--fail-on", "stop", "-o", str(tmp_path / "y.md")]) == 1
+
+
+def test_module_entry_point_runs_a_review() -> None:
+    done = subprocess.run(
+        [sys.executable, "-m", "reviewer", "review", str(SAMPLES / "quayside-commuter.toml")],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.startswith("# Pre-ride design review: Quayside Commuter")
