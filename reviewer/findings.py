@@ -98,8 +98,8 @@ class Finding:
         """
         if not _both_quantities(self.measured, self.limit) or _is_offset(self.limit):
             return None
-        limit = float(self.limit.to_base_units().magnitude)
-        measured = float(self.measured.to(self.limit.units).to_base_units().magnitude)
+        limit = float(self.limit.magnitude)  # a ratio: any common multiplicative unit will do
+        measured = float(self.measured.m_as(self.limit.units))
         if limit == 0:
             return None
         if self.comparison is Comparison.AT_MOST:

@@ -24,8 +24,11 @@ SEVERITY_ORDER = (
     Severity.ADVISE,
     Severity.PASS,
 )
-_MD_BACKSLASH = set("\\`*_{}[]#|~!")
-_MD_ENTITY = {"<": "&lt;", ">": "&gt;", "&": "&amp;"}
+_MD_TABLE = {ord(c): "\\" + c for c in "\\`*_{}[]#|~!"}
+_MD_TABLE.update({ord("<"): "&lt;", ord(">"): "&gt;", ord("&"): "&amp;"})
+_MD_TABLE.update({ord(c): " " for c in "\r\n\t"})
+_MD_TABLE.update({c: None for c in range(32) if chr(c) not in "\r\n\t"})
+_MD_TABLE.update({0x7F: None, 0x2028: " ", 0x2029: " "})
 
 
 class Raw(str):
@@ -38,20 +41,7 @@ def markdown_text(value: Any) -> str:
         return str(value)
     if value is None:
         return ""
-    text = str(value)
-    out = []
-    for char in text:
-        if char in _MD_BACKSLASH:
-            out.append("\\" + char)
-        elif char in _MD_ENTITY:
-            out.append(_MD_ENTITY[char])
-        elif char in "\r\n\t":
-            out.append(" ")
-        elif ord(char) < 32:
-            continue
-        else:
-            out.append(char)
-    return "".join(out)
+    return str(value).translate(_MD_TABLE)
 
 
 def _quantity(value: Any) -> str:
