@@ -45,5 +45,12 @@ def main(argv: Sequence[str] | None = None) -> int:
     except InputError as exc:
         print(f"firstride: {exc}", file=sys.stderr)
         return EXIT_INPUT
+    except ValueError as exc:
+        from reviewer.signing_keys import SigningError
+
+        if not isinstance(exc, SigningError):
+            raise
+        print(f"firstride: {exc}", file=sys.stderr)
+        return EXIT_INPUT
     except KeyboardInterrupt:
         return 130
