@@ -77,6 +77,7 @@ def test_garbled_key_is_one_line(tmp_path: Path, capsys) -> None:
     main(["review", str(GO), "-o", str(review)])
     bad = tmp_path / "bad.key"
     bad.write_text("not a key")
+    capsys.readouterr()
     code = main(["sign", str(review), "--key", str(bad), "--signer", "x", "--role", "y"])
     err = capsys.readouterr().err.strip()
     assert code == 2
