@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
+from typing import Any
 
 from reviewer import __version__
 from reviewer.build import Build
@@ -18,6 +19,7 @@ from reviewer.findings import (
 from reviewer.plugins import PackProblem
 from reviewer.profile import MissingLimit, Profile
 from reviewer.rule import Rule
+from reviewer.waivers import WaiverNote, WaiverSet, apply_waivers
 
 
 @dataclass(frozen=True)
@@ -33,9 +35,17 @@ class Review:
     problems: tuple[PackProblem, ...]
     verdict: Verdict
     tool_version: str = __version__
+    waivers: WaiverSet | None = None
+    waiver_notes: tuple[WaiverNote, ...] = ()
+    changes: Any = None  # a reviewer.changes.Changes when reviewed --since a previous review
 
     def count(self, severity: Severity) -> int:
-        return sum(1 for f in self.findings if f.severity is severity)
+        """Findings of that severity that still count (waived ones are counted apart)."""
+        return sum(1 for f in self.findings if f.severity is severity and f.waiver is None)
+
+    @property
+    def waived(self) -> int:
+        return sum(1 for f in self.findings if f.waiver is not None)
 
     @property
     def packs(self) -> list[tuple[str, str]]:
@@ -83,6 +93,7 @@ def review(
     build_path: str = "",
     build_fingerprint: str = "",
     problems: Sequence[PackProblem] = (),
+    waivers: WaiverSet | None = None,
 ) -> Review:
     findings: list[Finding] = []
     figures: dict[str, DerivedFigure] = {}
@@ -108,6 +119,9 @@ def review(
                 title=rule_id,
             )
         )
+    notes: list[WaiverNote] = []
+    if waivers is not None:
+        findings, notes = apply_waivers(findings, waivers.waivers, known, _stop_waivable(profile))
     findings.sort(key=lambda f: f.sort_key)
     verdict = decide_verdict(findings, mandatory)
     return Review(
@@ -121,4 +135,12 @@ def review(
         assumptions=tuple(sorted(assumptions.values(), key=lambda a: a.text)),
         problems=tuple(problems),
         verdict=verdict,
+        waivers=waivers,
+        waiver_notes=tuple(notes),
     )
+
+
+def _stop_waivable(profile: Profile) -> bool:
+    """Only a profile that says so in ``[waivers] allow_stop = true`` lets a stop be waived."""
+    section = profile.extra.get("waivers", {})
+    return isinstance(section, dict) and section.get("allow_stop") is True

@@ -5,6 +5,7 @@ from __future__ import annotations
 import enum
 from collections.abc import Iterable
 from dataclasses import dataclass, field
+from typing import Any
 
 import pint
 
@@ -86,6 +87,7 @@ class Finding:
     sources: tuple[Source, ...] = ()
     missing: tuple[str, ...] = ()  # build fields whose absence left this unassessed
     error: str | None = None  # a rule that raised: its error
+    waiver: Any = None  # a reviewer.waivers.Waiver that accepted this finding
     rule_id: str = ""  # stamped by the engine from the rule that returned it
     title: str = ""  # likewise
 
@@ -150,10 +152,15 @@ class Verdict(enum.Enum):
 
 
 def decide_verdict(findings: Iterable[Finding], mandatory_rules: Iterable[str]) -> Verdict:
-    """Fail closed: a stop wins, then anything mandatory left unassessed, then fixes."""
+    """Fail closed: a stop wins, then anything mandatory left unassessed, then fixes.
+
+    Waived findings still show a rule ran, but their severity no longer counts. Unassessed
+    findings cannot be waived (see reviewer.waivers), so they always count.
+    """
     findings = list(findings)
+    counted = [f for f in findings if f.waiver is None]
     mandatory = set(mandatory_rules)
-    if any(f.severity is Severity.STOP for f in findings):
+    if any(f.severity is Severity.STOP for f in counted):
         return Verdict.NO_GO
     ran = {f.rule_id for f in findings if f.severity is not Severity.UNASSESSED}
     unassessed = {f.rule_id for f in findings if f.severity is Severity.UNASSESSED}
@@ -161,7 +168,7 @@ def decide_verdict(findings: Iterable[Finding], mandatory_rules: Iterable[str]) 
         return Verdict.INCOMPLETE
     if mandatory & unassessed or mandatory - ran - unassessed:
         return Verdict.INCOMPLETE
-    if any(f.severity is Severity.FIX for f in findings):
+    if any(f.severity is Severity.FIX for f in counted):
         return Verdict.CONDITIONAL
     return Verdict.GO
 

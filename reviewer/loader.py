@@ -54,17 +54,18 @@ def parse_build(raw: bytes, where: str) -> LoadedBuild:
     try:
         build = Build.model_validate(data)
     except ValidationError as exc:
-        raise _first_error(exc, where, data) from None
+        raise validation_error(exc, where, Build) from None
     return LoadedBuild(build, where, hashlib.sha256(raw).hexdigest(), data)
 
 
-def _first_error(exc: ValidationError, where: str, data: dict[str, Any]) -> InputError:
+def validation_error(exc: ValidationError, where: str, root: type[BaseModel]) -> InputError:
+    """The first validation error as one InputError naming the field path and what was expected."""
     error = exc.errors(include_url=False)[0]
     loc = tuple(error["loc"])
-    field = _path_text(loc) or "(build)"
+    field = _path_text(loc) or "(file)"
     kind = error["type"]
     if kind == "extra_forbidden":
-        hint = _suggest(loc)
+        hint = _suggest(loc, root)
         return InputError(where, field, f"no such key{hint}")
     if kind == "missing":
         return InputError(where, field, "this field is required")
@@ -86,9 +87,9 @@ def _path_text(loc: tuple[Any, ...]) -> str:
     return text
 
 
-def _suggest(loc: tuple[Any, ...]) -> str:
+def _suggest(loc: tuple[Any, ...], root: type[BaseModel]) -> str:
     """'did you mean' from the model that owns the unknown key."""
-    model: type[BaseModel] | None = Build
+    model: type[BaseModel] | None = root
     for part in loc[:-1]:
         if model is None or isinstance(part, int):
             continue

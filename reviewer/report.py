@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from functools import cache
 from importlib import resources
+from importlib.resources.abc import Traversable
 from typing import Any
 
 import jinja2
@@ -72,9 +73,13 @@ def _limit(finding: Finding) -> str:
     return Raw(f"{word} {format_quantity(finding.limit)}")
 
 
+def template_folder() -> Traversable:
+    return resources.files("reviewer.templates")
+
+
 @cache
 def environment() -> jinja2.Environment:
-    folder = resources.files("reviewer.templates")
+    folder = template_folder()
 
     def load(name: str) -> str:
         return folder.joinpath(name).read_text("utf-8")

@@ -4,8 +4,10 @@ from __future__ import annotations
 
 import argparse
 import sys
+from dataclasses import replace
 from pathlib import Path
 
+from reviewer.changes import compare, load_previous
 from reviewer.commands import EXIT_FINDINGS, EXIT_GO
 from reviewer.output import write_whole
 
@@ -24,6 +26,16 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help="lowest severity that makes the exit status 1 (default: fix); "
         "an incomplete review always exits 1",
     )
+    parser.add_argument(
+        "--format",
+        choices=["md", "html", "json"],
+        default="md",
+        help="md (default; the form you sign), html (one self-contained page), json",
+    )
+    parser.add_argument("--waivers", help="a waivers file (TOML) of accepted findings")
+    parser.add_argument(
+        "--since", metavar="PREVIOUS.json", help="a previous review in JSON form: report changes"
+    )
 
 
 def run(args: argparse.Namespace) -> int:
@@ -32,10 +44,12 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.loader import load_build
     from reviewer.plugins import default_manager
     from reviewer.profile import load_profile
-    from reviewer.report import render_markdown
+    from reviewer.waivers import load_waivers
 
     loaded = load_build(args.build)
     profile = load_profile(args.profile)
+    waivers = load_waivers(args.waivers) if args.waivers else None
+    previous = load_previous(args.since) if args.since else None
     manager = default_manager()
     result = review(
         loaded.build,
@@ -44,8 +58,12 @@ def run(args: argparse.Namespace) -> int:
         build_path=Path(args.build).as_posix(),
         build_fingerprint=loaded.fingerprint,
         problems=manager.problems,
+        waivers=waivers,
     )
-    text = render_markdown(result)
+    if previous is not None:
+        changes = compare(previous, Path(args.since).as_posix(), result.findings, loaded.data)
+        result = replace(result, changes=changes)
+    text = render(result, args.format, loaded.data)
     if args.output:
         write_whole(Path(args.output), text)
     else:
@@ -61,3 +79,19 @@ def run(args: argparse.Namespace) -> int:
         if f.severity is not Severity.UNASSESSED and f.severity.rank <= worst
     ]
     return EXIT_FINDINGS if failing else EXIT_GO
+
+
+def render(result: object, form: str, build_data: dict[str, object]) -> str:
+    """The review in the asked-for form; HTML is rendered from the same Markdown."""
+    from reviewer.report import render_markdown
+
+    if form == "json":
+        from reviewer.export import render_json
+
+        return render_json(result, build_data)  # type: ignore[arg-type]
+    markdown = render_markdown(result)  # type: ignore[arg-type]
+    if form == "html":
+        from reviewer.html import render_html
+
+        return render_html(result, markdown)  # type: ignore[arg-type]
+    return markdown

@@ -1,0 +1,43 @@
+"""The review as one self-contained HTML page, rendered from the same Markdown.
+
+markdown-it-py renders with raw HTML disabled, so text from a build file stays text even if the
+Markdown escaping were ever bypassed. The page shell and its print stylesheet live in
+``templates/review.html.j2``; nothing is fetched from elsewhere.
+"""
+
+from __future__ import annotations
+
+from functools import cache
+
+import jinja2
+from markdown_it import MarkdownIt
+from markupsafe import Markup
+
+from reviewer.engine import Review
+from reviewer.report import template_folder
+
+
+@cache
+def _markdown() -> MarkdownIt:
+    # commonmark with raw HTML off, plus GFM tables; links are validated by markdown-it itself
+    return MarkdownIt("commonmark", {"html": False, "linkify": False}).enable("table")
+
+
+@cache
+def _environment() -> jinja2.Environment:
+    folder = template_folder()
+    return jinja2.Environment(
+        loader=jinja2.FunctionLoader(lambda name: folder.joinpath(name).read_text("utf-8")),
+        autoescape=True,
+        undefined=jinja2.StrictUndefined,
+    )
+
+
+def markdown_to_html(markdown: str) -> str:
+    return _markdown().render(markdown)
+
+
+def render_html(review: Review, markdown: str) -> str:
+    body = Markup(markdown_to_html(markdown))  # markdown-it output with raw HTML disabled
+    template = _environment().get_template("review.html.j2")
+    return template.render(review=review, body=body) + "\n"
