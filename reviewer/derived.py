@@ -127,3 +127,212 @@ def stall_currents(
     total = voltage * conductance / (1 + shared_resistance * conductance)
     across = voltage - total * shared_resistance
     return total, {name: across / r for name, r in branch_resistance.items()}
+
+
+# --- The drive model: motors, gearing and vehicle, shared by speed, braking and hill rules -----
+# Imported here rather than at the top because this section was appended to a shared module.
+import pint  # noqa: E402
+
+from reviewer.engineering.roadload import Drive, DriveMotor  # noqa: E402
+from reviewer.findings import Assumption  # noqa: E402
+from reviewer.profile import Profile  # noqa: E402
+
+
+def magnitude_in(quantity: pint.Quantity, target: pint.Unit) -> float:
+    """Magnitude in ``target``; build fields already sit in their fixed unit, so skip pint's
+    conversion (the slow part of a review) when they do."""
+    if quantity.units == target:
+        return float(quantity.magnitude)
+    return float(quantity.m_as(target))
+
+
+def motor_kv(motor: Motor) -> float | None:
+    """Kv in rpm/V: given, or no-load speed over rated voltage (as ``Motor.effective_kv``, in
+    floats: pint division is slow)."""
+    if motor.kv is not None:
+        return magnitude_in(motor.kv, unit("rpm/V"))
+    if motor.no_load_speed is not None and motor.rated_voltage is not None:
+        return magnitude_in(motor.no_load_speed, unit("rpm")) / magnitude_in(
+            motor.rated_voltage, unit("V")
+        )
+    return None
+
+
+def drive_model_missing(build: Build) -> tuple[str, ...]:
+    """The build fields the drive model needs and the build lacks, as field paths."""
+    missing: list[str] = []
+    if build.vehicle.mass is None:
+        missing.append("vehicle.mass")
+    if build.battery is None:
+        missing.append("battery")
+    if not build.motors:
+        missing.append("motors")
+    for index, motor in enumerate(build.motors):
+        if motor_kv(motor) is None:
+            missing.append(f"motors[{index}].kv")
+        if motor.winding_resistance is None:
+            missing.append(f"motors[{index}].winding_resistance")
+    drivetrain = build.drivetrain
+    if drivetrain is None or drivetrain.reduction is None:
+        missing.append("drivetrain.ratio")
+    if drivetrain is None or drivetrain.wheel_diameter is None:
+        missing.append("drivetrain.wheel_diameter")
+    return tuple(missing)
+
+
+def drive_model(
+    build: Build, profile: Profile
+) -> tuple[Drive | None, list[Assumption], tuple[str, ...]]:
+    """The build's motors, gearing and vehicle as one ``Drive`` (SI floats), the assumptions
+    made for inputs the build leaves out, and the missing fields (the drive is None then).
+
+    Each motor is a torque-speed line on the full pack (cold stall loop: winding, switch, its
+    own wires, plus the shared pack and battery wiring), at ``controller.max_duty`` (100 % if
+    unset) and the per-motor ``controller.current_limit``. Defaults, each noted: no-load current
+    0 A, drivetrain efficiency 100 % (both on the fast side), Crr and CdA from the profile's
+    ``usage.default_rolling_resistance`` and ``usage.default_drag_area``.
+    """
+    missing = drive_model_missing(build)
+    if missing:
+        return None, [], missing
+    assert build.battery is not None and build.drivetrain is not None
+    assert build.vehicle.mass is not None and build.drivetrain.wheel_diameter is not None
+    assert build.drivetrain.reduction is not None
+    loop = stall_loop(build)
+    assert loop is not None
+    notes: list[Assumption] = []
+    motors = []
+    for motor in build.motors:
+        kv = motor_kv(motor)
+        assert kv is not None
+        no_load = 0.0
+        if motor.no_load_current is None:
+            notes.append(
+                Assumption(
+                    f"Motor '{motor.name}': no-load current not given, taken as 0 A "
+                    "(no friction), which errs on the fast side."
+                )
+            )
+        else:
+            no_load = magnitude_in(motor.no_load_current, unit("A"))
+        motors.append(DriveMotor(kv, loop.branch_resistance[motor.name], no_load))
+    usage = build.usage
+    if usage.rolling_resistance is not None:
+        crr = usage.rolling_resistance
+    else:
+        limit = profile.limit("usage.default_rolling_resistance")
+        crr = float(limit.value)  # type: ignore[arg-type]
+        notes.append(Assumption(f"Rolling resistance not given: Crr {crr:g} taken.", limit.source))
+    if usage.drag_area is not None:
+        drag_area = magnitude_in(usage.drag_area, unit("m**2"))
+    else:
+        limit = profile.limit("usage.default_drag_area")
+        drag_area = magnitude_in(limit.quantity, unit("m**2"))
+        notes.append(Assumption(f"Drag area not given: CdA {drag_area:g} m² taken.", limit.source))
+    efficiency = 1.0
+    if build.drivetrain.efficiency is not None:
+        efficiency = magnitude_in(build.drivetrain.efficiency, unit("percent")) / 100.0
+    else:
+        notes.append(
+            Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")
+        )
+    duty = 1.0
+    if build.controller is not None and build.controller.max_duty is not None:
+        duty = magnitude_in(build.controller.max_duty, unit("percent")) / 100.0
+    drive = Drive(
+        motors=tuple(motors),
+        full_voltage=loop.voltage,
+        reduction=build.drivetrain.reduction,
+        wheel_radius=magnitude_in(build.drivetrain.wheel_diameter, unit("mm")) / 2000.0,
+        rolling_resistance=crr,
+        drag_area=drag_area,
+        shared_resistance=loop.shared_resistance,
+        duty=duty,
+        current_limit=current_limit(build),
+        efficiency=efficiency,
+    )
+    return drive, notes, ()
+
+
+# --- Wire ampacity and the pack's small loads, shared by the battery and protection rules -----
+# Imported here rather than at the top because this section was appended to a shared module.
+from reviewer.engineering.conductors import (  # noqa: E402
+    Ampacity,
+    awg_for_area,
+    datasheet_ampacity,
+    parse_awg,
+    tabulated_ampacity,
+)
+
+
+def in_unit(amount: pint.Quantity, target: str) -> float:
+    """A quantity's magnitude in ``target`` (a unit text, parsed once through the unit cache).
+
+    Build fields are parsed into their dimension's fixed unit through that same cache, so they
+    share its unit object and need no conversion: the identity test costs well under a
+    microsecond, where pint's ``m_as`` (or even ``units ==``) costs tens. Anything else, a
+    profile limit in another unit, is converted properly."""
+    units = unit(target)
+    if amount._units is units._units:
+        return float(amount.magnitude)
+    return float(amount.m_as(units))
+
+
+def wire_awg(wire: Wire) -> int:
+    """The AWG row a wire is looked up by: its gauge, or for a metric wire the heaviest AWG size
+    not above its area (rounding down is conservative)."""
+    if wire.cross_section is not None:
+        return awg_for_area(in_unit(wire.cross_section, "mm**2"))
+    return parse_awg(wire.gauge or "")
+
+
+def wire_ampacity(wire: Wire, ambient_c: float) -> Ampacity | None:
+    """A wire's continuous ampacity on the basis wiring.stall-current rates it by: its datasheet
+    ``rated_ampacity`` (read as for 30 degC air) if given, else the higher of NEC Table 310.16 and
+    FAA AC 43.13-1B Table 11-9 in the column at or below its rating; corrected for ambient and
+    for its bundle. None without ``temperature_rating`` or for a size outside both tables."""
+    if wire.temperature_rating is None:
+        return None
+    rating_c = in_unit(wire.temperature_rating, "degC")
+    loaded = wire.bundled_with + 1
+    if wire.rated_ampacity is not None:
+        rated = in_unit(wire.rated_ampacity, "A")
+        return datasheet_ampacity(rated, rating_c, ambient_c, loaded)
+    return tabulated_ampacity(wire_awg(wire), rating_c, ambient_c, loaded)
+
+
+@dataclass(frozen=True)
+class AuxiliaryLoad:
+    """Current the pack feeds besides the motors: the logic board (through a regulator fed from
+    the pack) and the brake relay's coil, in A; and the fields of parts present whose current
+    the build does not give."""
+
+    current: float
+    parts: tuple[str, ...]  # "logic board 0.12 A", for rationales
+    missing: tuple[str, ...]
+
+
+def auxiliary_current(build: Build) -> AuxiliaryLoad:
+    """Logic board current (counted at the pack as drawn: a linear regulator passes its output
+    current through, a switching one draws less, so this errs high) and brake relay coil."""
+    current, parts, missing = 0.0, [], []
+    logic = build.logic
+    if logic is not None and (logic.regulator is None or logic.regulator.fed_from_pack):
+        if logic.board_current is None:
+            missing.append("logic.board_current")
+        else:
+            amps = in_unit(logic.board_current, "mA") / 1000
+            current += amps
+            parts.append(f"logic board {amps:.3g} A")
+    brake = build.brake
+    if brake is not None and any(
+        value is not None
+        for value in (brake.relay_contact_rating, brake.relay_contact_voltage, brake.coil_current)
+    ):
+        if brake.coil_current is None:
+            missing.append("brake.coil_current")
+        else:
+            amps = in_unit(brake.coil_current, "mA") / 1000
+            current += amps
+            parts.append(f"brake relay coil {amps:.3g} A")
+    return AuxiliaryLoad(current, tuple(parts), tuple(missing))

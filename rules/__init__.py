@@ -12,6 +12,34 @@ from reviewer.rule import Rule
 
 @hookimpl
 def firstride_register_rules() -> list[Rule]:
-    from firstride_rules import enclosure, logic, motor, speed, wiring
+    from firstride_rules import (
+        battery,
+        brake,
+        controller,
+        enclosure,
+        logic,
+        motor,
+        performance,
+        protection,
+        regulator,
+        speed,
+        voltage,
+        wiring,
+    )
 
-    return [wiring.RULE, motor.RULE, speed.RULE, enclosure.RULE, logic.RULE]
+    return [
+        # the five core checks
+        wiring.RULE,
+        motor.RULE,
+        speed.RULE,
+        enclosure.RULE,
+        logic.RULE,
+        # the rest of the power train
+        *battery.RULES,
+        voltage.RULE,
+        protection.RULE,
+        *controller.RULES,
+        regulator.RULE,
+        brake.RULE,
+        performance.RULE,
+    ]

@@ -9,11 +9,10 @@ import pint
 
 from reviewer import derived
 from reviewer import units as u
-from reviewer.build import Build, Motor, Rider, RiderClass
+from reviewer.build import Build, Rider, RiderClass
 from reviewer.engineering.motor import rad_s_to_rpm, torque_constant
 from reviewer.engineering.roadload import (
     Drive,
-    DriveMotor,
     highest_duty_within,
     kinetic_energy,
     largest_pulley_within,
@@ -43,19 +42,14 @@ ADULT_STOP_EXCESS = 0.20
 _TOLERANCE_MS = 1e-9
 _MAX_REDUCTION = 100.0  # the build model's bound on drivetrain.ratio
 # Units parsed once: building quantities from unit text costs far more than the physics.
-_A = u.ureg.Unit("A")
 _KG = u.ureg.Unit("kg")
 _KJ = u.ureg.Unit("kJ")
 _KMH = u.ureg.Unit("km/h")
 _M = u.ureg.Unit("m")
-_M2 = u.ureg.Unit("m**2")
 _MS2 = u.ureg.Unit("m/s**2")
 _NM_PER_A = u.ureg.Unit("N*m/A")
-_MM = u.ureg.Unit("mm")
-_PERCENT = u.ureg.Unit("percent")
 _RPM = u.ureg.Unit("rpm")
 _RPM_PER_V = u.ureg.Unit("rpm/V")
-_V = u.ureg.Unit("V")
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -97,7 +91,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     gives more wheel torque; a larger one can lower the top speed of a current-limited drive
     too, but at the cost of torque, so it is not offered.
     """
-    missing = _missing(build)
+    missing = derived.drive_model_missing(build)
     if not build.riders:
         yield Finding(
             severity=Severity.UNASSESSED,
@@ -120,33 +114,16 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
                 sources=(MOTOR_MODEL, ROAD_LOAD),
             )
         return
-    drive, assumptions = _drive(build, profile)
-    yield from assumptions
+    drive, notes, _ = derived.drive_model(build, profile)
+    assert drive is not None
+    yield Assumption(
+        "Top speed is solved on flat ground in still air at sea-level air density.", ROAD_LOAD
+    )
+    yield from notes
     yield from _motor_figures(build, drive)
     deceleration = profile.limit("speed.reference_deceleration")
     for rider in build.riders:
         yield from _check_rider(build, drive, rider, profile, deceleration)
-
-
-def _missing(build: Build) -> tuple[str, ...]:
-    missing: list[str] = []
-    if build.vehicle.mass is None:
-        missing.append("vehicle.mass")
-    if build.battery is None:
-        missing.append("battery")
-    if not build.motors:
-        missing.append("motors")
-    for index, motor in enumerate(build.motors):
-        if _kv(motor) is None:
-            missing.append(f"motors[{index}].kv")
-        if motor.winding_resistance is None:
-            missing.append(f"motors[{index}].winding_resistance")
-    drivetrain = build.drivetrain
-    if drivetrain is None or drivetrain.reduction is None:
-        missing.append("drivetrain.ratio")
-    if drivetrain is None or drivetrain.wheel_diameter is None:
-        missing.append("drivetrain.wheel_diameter")
-    return tuple(missing)
 
 
 def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
@@ -155,81 +132,6 @@ def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
     if quantity.units == unit:
         return float(quantity.magnitude)
     return float(quantity.m_as(unit))
-
-
-def _kv(motor: Motor) -> float | None:
-    """Kv in rpm/V: given, or no-load speed over rated voltage (as ``Motor.effective_kv``, in
-    floats: this runs once per review and pint division is slow)."""
-    if motor.kv is not None:
-        return _in(motor.kv, _RPM_PER_V)
-    if motor.no_load_speed is not None and motor.rated_voltage is not None:
-        return _in(motor.no_load_speed, _RPM) / _in(motor.rated_voltage, _V)
-    return None
-
-
-def _drive(build: Build, profile: Profile) -> tuple[Drive, list[Assumption]]:
-    assert build.battery is not None and build.drivetrain is not None
-    assert build.vehicle.mass is not None and build.drivetrain.wheel_diameter is not None
-    assert build.drivetrain.reduction is not None
-    loop = derived.stall_loop(build)
-    assert loop is not None
-    notes = [
-        Assumption(
-            "Top speed is solved on flat ground in still air at sea-level air density.",
-            ROAD_LOAD,
-        )
-    ]
-    motors = []
-    for motor in build.motors:
-        kv = _kv(motor)
-        assert kv is not None
-        no_load = 0.0
-        if motor.no_load_current is None:
-            notes.append(
-                Assumption(
-                    f"Motor '{motor.name}': no-load current not given, taken as 0 A "
-                    "(no friction), which errs on the fast side."
-                )
-            )
-        else:
-            no_load = _in(motor.no_load_current, _A)
-        motors.append(DriveMotor(kv, loop.branch_resistance[motor.name], no_load))
-    usage = build.usage
-    if usage.rolling_resistance is not None:
-        crr = usage.rolling_resistance
-    else:
-        limit = profile.limit("usage.default_rolling_resistance")
-        crr = float(limit.value)  # type: ignore[arg-type]
-        notes.append(Assumption(f"Rolling resistance not given: Crr {crr:g} taken.", limit.source))
-    if usage.drag_area is not None:
-        drag_area = _in(usage.drag_area, _M2)
-    else:
-        limit = profile.limit("usage.default_drag_area")
-        drag_area = _in(limit.quantity, _M2)
-        notes.append(Assumption(f"Drag area not given: CdA {drag_area:g} m² taken.", limit.source))
-    efficiency = 1.0
-    if build.drivetrain.efficiency is not None:
-        efficiency = _in(build.drivetrain.efficiency, _PERCENT) / 100.0
-    else:
-        notes.append(
-            Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")
-        )
-    duty = 1.0
-    if build.controller is not None and build.controller.max_duty is not None:
-        duty = _in(build.controller.max_duty, _PERCENT) / 100.0
-    drive = Drive(
-        motors=tuple(motors),
-        full_voltage=loop.voltage,
-        reduction=build.drivetrain.reduction,
-        wheel_radius=_in(build.drivetrain.wheel_diameter, _MM) / 2000.0,
-        rolling_resistance=crr,
-        drag_area=drag_area,
-        shared_resistance=loop.shared_resistance,
-        duty=duty,
-        current_limit=derived.current_limit(build),
-        efficiency=efficiency,
-    )
-    return drive, notes
 
 
 def _motor_figures(build: Build, drive: Drive) -> Iterator[DerivedFigure]:

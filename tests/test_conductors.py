@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import itertools
 import math
 
 import pytest
@@ -25,6 +26,7 @@ from reviewer.engineering.conductors import (
     parse_awg,
     table_ampacity,
     tabulated_ampacity,
+    thin_wire_ampacity_bound,
     voltage_drop,
     withstand_i2t,
     withstand_time,
@@ -233,6 +235,49 @@ def test_higher_basis_of_the_two_tables():
     assert found.table == FAA_11_9.name and found.current == pytest.approx(25)
     # 16 AWG is only in the FAA table, and only from its 105 degC column up
     assert tabulated_ampacity(16, 90.0, 30.0) is None
+
+
+@pytest.mark.parametrize("table", [NEC_310_16, FAA_11_9])
+def test_every_column_rises_with_size(table):
+    # NEC Table 310.16 and FAA AC 43.13-1B Table 11-9 (entries checked above): in each column
+    # a heavier size carries more, which makes the smallest size a bound for thinner wires.
+    thinnest_first = sorted(table.rows, reverse=True)  # AWG 14 -> 8, or 18 -> 10
+    for column in range(len(table.columns_c)):
+        amps = [table.rows[awg][column] for awg in thinnest_first]
+        assert all(lighter < heavier for lighter, heavier in itertools.pairwise(amps))
+
+
+def test_thin_wire_bound_is_the_smallest_tabulated_size():
+    # NEC Table 310.16: 14 AWG, 60 degC column, 15 A; the column at or below a 70 degC rating.
+    bound = thin_wire_ampacity_bound(22, 70.0, 30.0)
+    assert bound is not None
+    assert (bound.table, bound.row_awg, bound.column_c) == (NEC_310_16.name, 14, 60.0)
+    assert bound.current == pytest.approx(15)
+    # 16 AWG has an FAA 11-9 row but no column at or below 70 degC: the NEC bound applies
+    bound = thin_wire_ampacity_bound(16, 70.0, 30.0)
+    assert bound is not None and bound.row_awg == 14 and bound.current == pytest.approx(15)
+    # NEC 310.15(C)(1): five loaded conductors x0.80
+    bound = thin_wire_ampacity_bound(22, 70.0, 30.0, loaded_conductors=5)
+    assert bound is not None and bound.current == pytest.approx(15 * 0.80)
+
+
+def test_thin_wire_bound_takes_the_more_generous_table():
+    # 22 AWG rated 200 degC at 30 degC: NEC 14 AWG 90 degC 25 A beats FAA 18 AWG 200 degC
+    # 12 A x sqrt(170/130) = 13.7 A (NEC 310.15(B) form of the ambient correction).
+    bound = thin_wire_ampacity_bound(22, 200.0, 30.0)
+    assert bound is not None and bound.table == NEC_310_16.name
+    assert bound.current == pytest.approx(25)
+    # at 80 degC: NEC 25 x sqrt(10/60) = 10.2 A, FAA 12 x sqrt(120/130) = 11.5 A
+    bound = thin_wire_ampacity_bound(22, 200.0, 80.0)
+    assert bound is not None and bound.table == FAA_11_9.name and bound.row_awg == 18
+    assert bound.current == pytest.approx(12 * math.sqrt(120 / 130))
+
+
+def test_no_thin_wire_bound_without_a_column_or_a_thinner_size():
+    # below NEC 310.16's 60 degC and FAA 11-9's 105 degC columns nothing bounds the wire
+    assert thin_wire_ampacity_bound(22, 50.0, 30.0) is None
+    # 12 AWG is not thinner than either table's smallest row (NEC 14, FAA 18 AWG)
+    assert thin_wire_ampacity_bound(12, 90.0, 30.0) is None
 
 
 def test_datasheet_ampacity_read_at_30_degc():

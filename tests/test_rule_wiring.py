@@ -16,8 +16,18 @@ from firstride_rules.wiring import REMEDY_GAUGES, RULE
 from reviewer.findings import Finding, Severity
 from reviewer.profile import load_profile
 from reviewer.testing import rule_outputs, run_rule_on
+from reviewer.units import format_number
 
-CRC_OHM_PER_KM = {8: 2.061, 10: 3.277, 12: 5.211, 14: 8.286, 16: 13.17, 18: 20.95}  # CRC table
+CRC_OHM_PER_KM = {  # CRC handbook table, ohm/km at 20 degC
+    8: 2.061,
+    10: 3.277,
+    12: 5.211,
+    14: 8.286,
+    16: 13.17,
+    18: 20.95,
+    20: 33.31,
+    22: 52.96,
+}
 PACK_FULL = 6 * 4.2  # 6S li-ion, from memory
 PACK_NOMINAL = 6 * 3.6  # from memory
 AMBIENT = 35.0  # the default profile's usage.default_ambient_temperature
@@ -345,3 +355,87 @@ def test_pack_fuse_sees_every_motor_current():
     lead = on(findings, "wire 'left lead'")
     assert "fuse 'main' acts" in lead.rationale
     assert lead.measured.m_as("A") == pytest.approx(40)  # capped by the fuse rating
+
+
+PVC_70 = {"insulation": "pvc", "temperature_rating": "70 degC"}
+# NEC Table 310.16: 14 AWG, 60 degC column, 15 A (published), corrected to 35 degC by the
+# NEC 310.15(B) formula; the 60 degC column is the one at or below a 70 degC rating.
+NEC_14_AWG_60C = 15 * math.sqrt((60 - AMBIENT) / 30)
+
+
+def thin_pair(gauge, stall=24.0, **extra):
+    """Two wires of one gauge, 0.5 m each, and a winding that makes the stall ``stall`` amperes
+    from the full 6S pack (Ohm's law with the CRC table resistance)."""
+    winding = PACK_FULL / stall - ohms(gauge, 1.0)
+    wires = (wire("pack positive", gauge, **PVC_70), wire("pack negative", gauge, **PVC_70))
+    return build(*wires, winding=f"{winding:.6f} ohm", **extra)
+
+
+@pytest.mark.parametrize(
+    "gauge",
+    [
+        22,  # thinner than both tables
+        16,  # FAA Table 11-9 has the row but no column at or below 70 degC
+    ],
+)
+def test_thin_wire_over_the_smallest_tabulated_size_is_stop(gauge):
+    finding = on(run_rule_on(RULE, thin_pair(gauge)), "wire 'pack positive'")
+    assert finding.severity is Severity.STOP
+    assert finding.measured.m_as("A") == pytest.approx(24.0, rel=0.005)  # Ohm's law, CRC table
+    assert finding.limit.m_as("A") == pytest.approx(NEC_14_AWG_60C)
+    assert "upper bound" in finding.rationale
+    assert "NEC Table 310.16, 14 AWG, 60 °C column: 15 A" in finding.rationale
+    assert finding.missing == ()
+    # a datasheet cannot rate this size above the bound, so none is asked for
+    assert "datasheet ampacity of at least" not in finding.remedy
+
+    def resized(g):  # the same motor, both wires at gauge g
+        data = thin_pair(gauge)
+        data["wires"] = [wire("pack positive", g, **PVC_70), wire("pack negative", g, **PVC_70)]
+        return on(run_rule_on(RULE, data), "wire 'pack positive'")
+
+    proposed = _remedy_gauge(finding)
+    assert resized(proposed).severity is Severity.PASS
+    lighter = REMEDY_GAUGES[REMEDY_GAUGES.index(proposed) - 1]
+    assert resized(lighter).severity is not Severity.PASS
+
+
+def test_thin_wire_design_current_over_the_bound_is_fix():
+    data = thin_pair(22, controller=limit("20 A", "10 ms"))
+    finding = on(run_rule_on(RULE, data), "wire 'pack positive'")
+    assert finding.severity is Severity.FIX
+    assert finding.measured.m_as("A") == pytest.approx(20)
+    assert finding.limit.m_as("A") == pytest.approx(NEC_14_AWG_60C)
+    assert "upper bound" in finding.rationale
+
+
+def test_thin_wire_under_the_bound_needs_its_datasheet():
+    data = thin_pair(22, controller=limit("0.5 A", "10 ms"))
+    finding = on(run_rule_on(RULE, data), "wire 'pack positive'")
+    assert finding.severity is Severity.UNASSESSED
+    assert finding.missing == ("wires[0].rated_ampacity",)
+    assert format_number(NEC_14_AWG_60C) + " A" in finding.rationale
+    # NEC Table 310.16 rates nothing thinner than 14 AWG, and FAA Table 11-9 has no column at
+    # or below 70 degC, so 14 AWG is the lightest size a table can vouch for
+    assert _remedy_gauge(finding) == 14
+
+
+def test_thin_wire_still_gets_the_adiabatic_check():
+    fuse = {"name": "main", "location": "battery-positive", "rating": "10 A"}
+    fuse["clearing_time"] = "3 s"
+    finding = on(run_rule_on(RULE, thin_pair(22, fuses=[fuse])), "wire 'pack positive'")
+    assert finding.severity is Severity.STOP
+    # IEC 60364-4-43 434.5.2: PVC k = 115; 22 AWG 0.326 mm^2 (ASTM B258); 24 A by Ohm's law
+    assert finding.measured.m_as("s") == pytest.approx(3.0)
+    assert finding.limit.m_as("s") == pytest.approx(115**2 * 0.326**2 / 24.0**2, rel=0.01)
+
+
+def test_rating_below_every_column_stays_unassessed():
+    # NEC Table 310.16 starts at 60 degC and FAA Table 11-9 at 105 degC: no table bounds a
+    # 50 degC wire, however much current it carries
+    cool = {"insulation": "rubber", "temperature_rating": "50 degC"}
+    data = thin_pair(22)
+    data["wires"] = [wire("pack positive", 22, **cool), wire("pack negative", 22, **cool)]
+    finding = on(run_rule_on(RULE, data), "wire 'pack positive'")
+    assert finding.severity is Severity.UNASSESSED
+    assert finding.missing == ("wires[0].rated_ampacity",)

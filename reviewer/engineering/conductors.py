@@ -1,5 +1,6 @@
 """Copper conductors: AWG geometry (ASTM B258), resistance (IEC 60028), short-circuit withstand
-(IEC 60364-4-43 clause 434.5.2 / IEC 60364-5-54 Annex A), tabulated ampacity and voltage drop.
+(IEC 60364-4-43 clause 434.5.2 / IEC 60364-5-54 Annex A), tabulated ampacity (with an upper
+bound for wires thinner than the tables) and voltage drop.
 
 Everything here is a pure function of floats (mm, mm^2, m, A, s, degC) so each figure can be
 checked against the handbook it comes from. Which figure a review uses, and why, is the rule's
@@ -50,6 +51,7 @@ def awg_diameter_mm(n: int) -> float:
     return 0.127 * 92 ** ((36 - n) / 39)
 
 
+@lru_cache(maxsize=256)
 def awg_area(gauge: str | int) -> float:
     """Cross-section in mm^2 of a solid conductor of that gauge."""
     n = parse_awg(gauge) if isinstance(gauge, str) else gauge
@@ -265,6 +267,28 @@ def tabulated_ampacity(
         for table in AMPACITY_TABLES
         if (a := table_ampacity(table, awg, rating_c, ambient_c, loaded_conductors)) is not None
     ]
+    return max(found, key=lambda a: a.current, default=None)
+
+
+@lru_cache(maxsize=4096)
+def thin_wire_ampacity_bound(
+    awg: int, rating_c: float, ambient_c: float, loaded_conductors: int = 1
+) -> Ampacity | None:
+    """An upper bound on the ampacity of a wire thinner than a table's smallest size.
+
+    Ampacity falls with cross-section (every column of both tables rises with size), so such a
+    wire carries no more than the smallest size the table rates, read in the column at or
+    below the wire's rating with the same corrections. Over the tables it is thinner than, the
+    most generous figure is the bound. None where no such table has a column at or below the
+    rating: a 50 degC wire is below every column, and nothing bounds it.
+    """
+    found = []
+    for table in AMPACITY_TABLES:
+        smallest = max(table.rows)  # the highest AWG number is the thinnest row
+        if awg > smallest:
+            bound = table_ampacity(table, smallest, rating_c, ambient_c, loaded_conductors)
+            if bound is not None:
+                found.append(bound)
     return max(found, key=lambda a: a.current, default=None)
 
 

@@ -1,0 +1,445 @@
+"""protection.fuse: a fuse or breaker on the pack's positive lead, sized between the current the
+drive needs and the current its wires may carry, and able to break the fault it is there for.
+
+A pack has no upstream protection of its own: a short anywhere after it, a chafed lead or a
+failed switch, draws as much current as the cells and wires allow until something melts. The
+fuse at the positive terminal is the one part that ends that.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterator
+from dataclasses import dataclass
+
+import pint
+
+from reviewer import derived
+from reviewer.build import Build, Circuit, Fuse, Wire
+from reviewer.engineering.conductors import awg_label
+from reviewer.engineering.fuses import (
+    prospective_fault_current,
+    rating_window,
+    small_conductor_limit,
+    source_resistance_needed,
+)
+from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
+from reviewer.profile import Profile
+from reviewer.rule import Output, Rule
+from reviewer.units import format_number, quantity
+
+COORDINATION = Source(
+    "IEC 60364-4-43 clause 433.1: design current <= fuse rating <= conductor capacity "
+    "(Ib <= In <= Iz)"
+)
+SMALL_CONDUCTORS = Source(
+    "NEC (NFPA 70) 240.4(D): protection of at most 7 A for 18 AWG, 10 A 16 AWG, 15 A 14 AWG, "
+    "20 A 12 AWG, 30 A 10 AWG copper"
+)
+SHORT_CIRCUIT = Source.from_memory(
+    "IEC 60364-4-43 clause 434: a device must break any short-circuit current before it harms "
+    "the conductors; its breaking capacity at least the prospective current V / (R_source + "
+    "R_loop)"
+)
+FUSE_VOLTAGE = Source(
+    "ISO 8820-3: blade fuses rated 32 V or 58 V DC with 1000 A breaking capacity; a fuse "
+    "interrupts only at or below its rated voltage"
+)
+AMPACITY = Source(
+    "NEC Table 310.16 and FAA AC 43.13-1B Table 11-9 (or the wire's datasheet), corrected for "
+    "ambient and bundling as in wiring.stall-current"
+)
+BATTERY_POSITIVE = "battery-positive"
+_EPSILON = 1e-9
+
+
+def _n(value: float) -> str:
+    return format_number(value)
+
+
+@dataclass(frozen=True)
+class _Design:
+    """Ib: the current the pack lead carries in normal riding (a lower bound if ``missing``)."""
+
+    current: float
+    how: str
+    missing: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class _Capacity:
+    """Iz: the most the protected wires may be protected at, and the wire that sets it."""
+
+    current: float | None
+    wire: str
+    basis: str
+    missing: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class _Fault:
+    """The prospective short-circuit current at the controller input, if it can be formed."""
+
+    current: float | None
+    source: float | None  # pack internal resistance, ohm
+    loop: float  # battery-circuit wires, ohm
+
+
+def _design_current(build: Build) -> _Design:
+    """Per motor the controller's current limit, else its rated continuous current (a stall is
+    a fault, not service), plus the logic board and brake relay coil."""
+    limit = derived.current_limit(build)
+    aux = derived.auxiliary_current(build)
+    amps, missing = aux.current, list(aux.missing)
+    for index, motor in enumerate(build.motors):
+        if limit is not None:
+            amps += limit
+        elif motor.rated_current is not None:
+            amps += derived.in_unit(motor.rated_current, "A")
+        else:
+            missing.append(f"motors[{index}].rated_current")
+    if limit is None and len(missing) > len(aux.missing):
+        missing.append("controller.current_limit")
+    if not build.motors:
+        missing.append("motors")
+    count = len(build.motors)
+    if limit is not None:
+        how = f"the {_n(limit)} A current limit" + (f" x {count} motors" if count > 1 else "")
+    else:
+        how = "the motors' rated continuous current, as the controller sets no limit"
+    if aux.parts:
+        how += f", plus the {', '.join(aux.parts)}"
+    return _Design(amps, how, tuple(missing))
+
+
+def _protected(build: Build, fuse: Fuse | None) -> list[tuple[int, Wire]]:
+    """The wires a pack fuse must protect: those it names; else the battery-circuit wires, and
+    the motor wires too when no current limit guards them (the fuse is then their only
+    overload protection; behind a limit, motor wires are the controller's to protect, as NEC
+    240.4(G) leaves motor circuits to Article 430; from memory)."""
+    if fuse is not None and fuse.protects:
+        return [(i, w) for i, w in enumerate(build.wires) if w.name in fuse.protects]
+    circuits = {Circuit.BATTERY}
+    if derived.current_limit(build) is None:
+        circuits.add(Circuit.MOTOR)
+    return [(i, w) for i, w in enumerate(build.wires) if w.circuit in circuits]
+
+
+def _capacity(wires: list[tuple[int, Wire]], ambient: float) -> _Capacity:
+    best: tuple[float, str, str] | None = None
+    missing: list[str] = [] if wires else ["wires"]
+    for index, wire in wires:
+        ampacity = derived.wire_ampacity(wire, ambient)
+        if ampacity is None:
+            field = "temperature_rating" if wire.temperature_rating is None else "rated_ampacity"
+            missing.append(f"wires[{index}].{field}")
+            continue
+        awg = derived.wire_awg(wire)
+        allowed, basis = ampacity.current, f"ampacity, {ampacity.basis}"
+        ceiling = small_conductor_limit(awg)
+        if ceiling is not None and ceiling < allowed:
+            allowed, basis = ceiling, f"NEC 240.4(D) ceiling for {awg_label(awg)}"
+        if best is None or allowed < best[0]:
+            best = (allowed, wire.name, basis)
+    if best is None:
+        return _Capacity(None, "", "", tuple(missing))
+    return _Capacity(best[0], best[1], best[2], tuple(missing))
+
+
+def _fault(build: Build, full: float) -> _Fault:
+    loop = sum(derived.wire_resistance(w) for w in derived.shared_wires(build))
+    assert build.battery is not None
+    source = derived.pack_resistance(build.battery)
+    if source is None and loop <= 0:
+        return _Fault(None, None, loop)
+    return _Fault(prospective_fault_current(full, source or 0.0, loop), source, loop)
+
+
+def _amps(value: float) -> str:
+    """Whole amperes from 100 A up (a breaking capacity reads '1000 A', not '1×10^3 A')."""
+    return f"{value:.0f} A" if value >= 100 else f"{_n(value)} A"
+
+
+def _window(build: Build, design: _Design, capacity: _Capacity) -> str:
+    """A fuse rating window, Ib to Iz in whole amperes, or what to change when none fits."""
+    low = max(1, math.ceil(design.current - _EPSILON))
+    if design.missing and capacity.current is None:
+        return "fit a DC-rated fuse between the drive's normal current and the wires' ampacity"
+    if capacity.current is None:
+        return f"fit a fuse of at least {low} A (the wires' ratings set its upper bound)"
+    if design.missing:
+        high = math.floor(capacity.current + _EPSILON)
+        return f"fit a DC-rated fuse of at most {high} A, above the drive's normal current"
+    window = rating_window(design.current, capacity.current)
+    if window is not None:
+        amps = f"{window[0]} A" if window[0] == window[1] else f"{window[0]}-{window[1]} A"
+        return f"fit a {amps} DC-rated fuse"
+    remedy = (
+        f"no fuse rating fits between the {_n(design.current)} A design current and the "
+        f"{_n(capacity.current)} A wire '{capacity.wire}' may be protected at: use wire there "
+        f"that may be protected at {low} A or more"
+    )
+    limit = derived.current_limit(build)
+    aux = derived.auxiliary_current(build).current
+    if limit is not None and build.motors:
+        per_motor = math.floor((capacity.current - aux) / len(build.motors) + _EPSILON)
+        if per_motor >= 1:
+            each = " per motor" if len(build.motors) > 1 else ""
+            remedy += f", or set the current limit at or below {per_motor} A{each}"
+    return remedy
+
+
+def _missing_fuse(
+    build: Build, full: float, design: _Design, capacity: _Capacity, fault: _Fault
+) -> Finding:
+    unlimited = derived.current_limit(build) is None
+    text = (
+        "No fuse or breaker is on the pack's positive lead: a short anywhere after it draws "
+        "the pack's fault current with nothing to break it"
+    )
+    text += ", and nothing limits a stalled motor's current either." if unlimited else "."
+    for fuse in build.fuses:
+        if fuse.location == "battery-negative":
+            text += (
+                f" Fuse '{fuse.name}' on the negative lead does not break a short from the "
+                "positive side to the frame."
+            )
+    remedy = f"{_window(build, design, capacity)}, rated at least {_n(full)} V DC, at the battery "
+    remedy += "positive"
+    if fault.current is not None:
+        remedy += f", with a breaking capacity of at least {math.ceil(fault.current)} A"
+        if fault.source is None:
+            remedy += " (worst case: battery wires only)"
+    return Finding(
+        Severity.STOP if unlimited else Severity.FIX,
+        "fuse at the battery positive",
+        text,
+        remedy=remedy,
+        sources=(SHORT_CIRCUIT, COORDINATION),
+    )
+
+
+def _coordination(build: Build, fuse: Fuse, design: _Design, capacity: _Capacity) -> Finding:
+    rating = derived.in_unit(fuse.rating, "A")
+    subject = f"fuse '{fuse.name}' rating"
+    text = f"Rated {_n(rating)} A; the design current is {_n(design.current)} A ({design.how})"
+    if capacity.current is not None:
+        text += (
+            f", and wire '{capacity.wire}' may be protected at no more than "
+            f"{_n(capacity.current)} A ({capacity.basis})"
+        )
+    text += "."
+    measured = quantity(rating, "A")
+    limit, comparison = None, Comparison.AT_MOST
+    if capacity.current is not None:
+        limit = quantity(capacity.current, "A")
+    severity = Severity.PASS
+    if capacity.current is not None and rating > capacity.current + _EPSILON:
+        severity = Severity.FIX
+        text += f" The fuse lets wire '{capacity.wire}' overheat before it opens."
+    elif rating < design.current - _EPSILON:
+        severity, comparison = Severity.FIX, Comparison.AT_LEAST
+        limit = quantity(design.current, "A")
+        text += " The fuse opens in normal riding: a sudden loss of power."
+    missing = (*design.missing, *capacity.missing)
+    if severity is Severity.PASS and (missing or capacity.current is None):
+        severity = Severity.UNASSESSED
+        text += " Some currents or ratings it is checked against are not given."
+    remedy = None if severity is Severity.PASS else _window(build, design, capacity)
+    sources = (COORDINATION, SMALL_CONDUCTORS, AMPACITY)
+    missing = missing if severity is Severity.UNASSESSED else ()
+    return Finding(severity, subject, text, measured, limit, comparison, remedy, sources, missing)
+
+
+def _maybe(amount: pint.Quantity | None, target: str) -> float | None:
+    return None if amount is None else derived.in_unit(amount, target)
+
+
+def _interruption(
+    build: Build, index: int, fuse: Fuse, full: float, fault: _Fault
+) -> Iterator[Output]:
+    subject = f"fuse '{fuse.name}' interrupting rating"
+    volts = _maybe(fuse.voltage_rating, "V")
+    breaking = _maybe(fuse.breaking_capacity, "A")
+    sources = (SHORT_CIRCUIT, FUSE_VOLTAGE)
+    if volts is not None and volts < full - _EPSILON:
+        yield Finding(
+            Severity.STOP,
+            subject,
+            f"Rated {_n(volts)} V DC, below the {_n(full)} V full pack: its breaking capacity "
+            "holds only up to its rated voltage, so it may arc on instead of clearing a short.",
+            quantity(full, "V"),
+            quantity(volts, "V"),
+            Comparison.AT_MOST,
+            f"use a fuse rated at least {_n(full)} V DC",
+            sources,
+        )
+        return
+    missing = [f"fuses[{index}].voltage_rating"] if volts is None else []
+    if breaking is None:
+        missing.append(f"fuses[{index}].breaking_capacity")
+    if fault.current is None:
+        missing += ["battery.cell_internal_resistance", "wires"]
+    if missing:
+        yield Finding(
+            Severity.UNASSESSED,
+            subject,
+            "Its DC voltage rating, its breaking capacity and the prospective short-circuit "
+            "current (pack internal resistance or battery wires) are all needed.",
+            missing=tuple(missing),
+            sources=sources,
+        )
+        return
+    assert breaking is not None and fault.current is not None
+    text = (
+        f"A short at the controller input draws {_amps(fault.current)} from the {_n(full)} V "
+        f"pack through {_n(fault.loop * 1000)} mΩ of battery wiring"
+    )
+    if fault.source is None:
+        text += " (worst case: the pack's internal resistance is not given)"
+        yield Assumption(
+            "battery.cell_internal_resistance not given: the prospective short-circuit current "
+            "counts the battery wires only, which overstates it.",
+            SHORT_CIRCUIT,
+        )
+    else:
+        text += f" and {_n(fault.source * 1000)} mΩ inside the pack"
+    text += f"; the fuse breaks up to {_amps(breaking)} at {_n(volts or 0)} V DC."
+    remedy = f"use a fuse with a breaking capacity of at least {math.ceil(fault.current)} A DC"
+    if fault.source is None:
+        remedy = f"give battery.cell_internal_resistance, or {remedy}"
+    if fault.current <= breaking + _EPSILON:
+        severity, remedy = Severity.PASS, None
+        missing_fields: tuple[str, ...] = ()
+    elif fault.source is None:
+        severity = Severity.UNASSESSED
+        assert build.battery is not None
+        needed = source_resistance_needed(full, breaking, fault.loop)
+        per_cell = needed * build.battery.cells_parallel / build.battery.cells_series
+        missing_fields = ("battery.cell_internal_resistance",)
+        text += (
+            f" It suffices if each cell's internal resistance is at least "
+            f"{_n(per_cell * 1000)} mΩ (the pack's {_n(needed * 1000)} mΩ)."
+        )
+    else:
+        severity, missing_fields = Severity.STOP, ()
+        text += " It may fail to clear the short."
+    yield Finding(
+        severity,
+        subject,
+        text,
+        quantity(fault.current, "A"),
+        quantity(breaking, "A"),
+        Comparison.AT_MOST,
+        remedy,
+        sources,
+        missing_fields,
+    )
+
+
+def check(build: Build, profile: Profile) -> Iterator[Output]:
+    """A fuse at the pack's positive terminal: present, coordinated, able to break a short.
+
+    What it checks
+      1. Presence: a fuse (or breaker) with ``location = "battery-positive"``. A fuse on the
+         negative lead does not break a short from the positive side to the frame.
+      2. Coordination of each such fuse (IEC 60364-4-43 433.1, Ib <= In <= Iz):
+         Ib, the design current, is per motor the ``controller.current_limit``, else its
+         ``motors[i].rated_current`` (a stall is a fault, not service), plus
+         ``logic.board_current`` (pack-fed) and ``brake.coil_current``. Iz is the least, over
+         the wires the fuse protects, of the wire's ampacity (as wiring.stall-current rates it:
+         datasheet ``rated_ampacity`` or NEC Table 310.16 / FAA AC 43.13-1B Table 11-9, with
+         ambient and bundling corrections) and the NEC 240.4(D) ceiling for 18-10 AWG (7, 10,
+         15, 20, 30 A; a metric wire is read as the heaviest AWG not above its area). The wires
+         it protects: those in ``fuses[i].protects``; else the battery-circuit wires, and also
+         the motor wires when there is no current limit to protect them.
+      3. Interruption of each such fuse: ``fuses[i].voltage_rating`` (DC) at least the full
+         pack voltage (ISO 8820-3 blade fuses: 32 V or 58 V), and ``fuses[i].breaking_capacity``
+         at least the prospective short-circuit current at the controller input,
+         V_full / (R_pack + R_battery_wires), with R_pack from
+         ``battery.cell_internal_resistance`` x series / parallel and the battery-circuit wires
+         at 20 °C. Without the cells' resistance the wires alone give the worst case (noted).
+
+    Severities
+      - stop: no pack-positive fuse and no controller current limit; a fuse rated below the
+        full pack voltage; a breaking capacity below the prospective current.
+      - fix: no pack-positive fuse where a current limit exists; a rating below Ib (it opens
+        in normal riding) or above Iz or the NEC 240.4(D) ceiling (the wire overheats first).
+      - pass: within every limit.
+      - unassessed: no ``battery``; a current, wire rating, voltage rating or breaking capacity
+        needed and not given (named); the worst-case short-circuit current above the breaking
+        capacity while the cells' internal resistance is unknown (the finding says what
+        resistance would suffice).
+
+    The remedy gives a rating window, e.g. "fit a 13-20 A DC-rated fuse", the DC voltage and the
+    breaking capacity to buy.
+    """
+    battery = build.battery
+    if battery is None:
+        yield Finding(
+            Severity.UNASSESSED,
+            "fuse at the battery positive",
+            "No battery is described, so neither its voltage nor its fault current is known.",
+            missing=("battery",),
+            sources=(SHORT_CIRCUIT,),
+        )
+        return
+    full = derived.pack_voltages(battery).full
+    if build.usage.ambient_temperature is not None:
+        ambient = derived.in_unit(build.usage.ambient_temperature, "degC")
+    else:
+        default = profile.limit("usage.default_ambient_temperature")
+        ambient = derived.in_unit(default.quantity, "degC")
+        yield Assumption(
+            f"Ambient temperature not given: {_n(ambient)} °C taken for wires.", default.source
+        )
+    design = _design_current(build)
+    fault = _fault(build, full)
+    if fault.current is not None:
+        note = "pack and battery wires at 20 °C, shorted at the controller input"
+        if fault.source is None:
+            note += "; wires only, pack internal resistance not given"
+        yield DerivedFigure(
+            "prospective short-circuit current", quantity(fault.current, "A"), note, order=25
+        )
+    fuses = [(i, f) for i, f in enumerate(build.fuses) if f.location == BATTERY_POSITIVE]
+    if not fuses:
+        capacity = _capacity(_protected(build, None), ambient)
+        yield _missing_fuse(build, full, design, capacity, fault)
+        return
+    for index, fuse in fuses:
+        capacity = _capacity(_protected(build, fuse), ambient)
+        yield _coordination(build, fuse, design, capacity)
+        yield from _interruption(build, index, fuse, full, fault)
+
+
+RULE = Rule(
+    id="protection.fuse",
+    title="Fuse at the battery positive: presence, coordination and breaking capacity",
+    check=check,
+    sources=(COORDINATION, SMALL_CONDUCTORS, SHORT_CIRCUIT, FUSE_VOLTAGE, AMPACITY),
+    inputs=(
+        "battery.chemistry",
+        "battery.cells_series",
+        "battery.cells_parallel",
+        "battery.cell_internal_resistance",
+        "motors[].rated_current",
+        "controller.current_limit",
+        "logic.board_current",
+        "brake.coil_current",
+        "wires[].circuit",
+        "wires[].gauge",
+        "wires[].cross_section",
+        "wires[].length",
+        "wires[].temperature_rating",
+        "wires[].bundled_with",
+        "wires[].rated_ampacity",
+        "fuses[].location",
+        "fuses[].rating",
+        "fuses[].voltage_rating",
+        "fuses[].breaking_capacity",
+        "fuses[].protects",
+        "usage.ambient_temperature",
+    ),
+    severities=(Severity.STOP, Severity.FIX, Severity.PASS, Severity.UNASSESSED),
+)
