@@ -11,8 +11,21 @@ from dataclasses import dataclass
 
 from reviewer.build import Battery, Build, Circuit, Motor, Wire
 from reviewer.engineering.cells import CELL_VOLTAGES, CellVoltages
-from reviewer.engineering.conductors import conductor_resistance
-from reviewer.units import unit
+from reviewer.engineering.conductors import (
+    Ampacity,
+    awg_area,
+    awg_for_area,
+    conductor_resistance,
+    datasheet_ampacity,
+    parse_awg,
+    tabulated_ampacity,
+)
+from reviewer.engineering.roadload import Drive, DriveMotor
+from reviewer.findings import Assumption
+from reviewer.profile import Profile
+from reviewer.units import in_unit, unit
+
+__all__ = ["in_unit"]  # re-exported: rules read build fields through it
 
 
 @dataclass(frozen=True)
@@ -36,12 +49,18 @@ def pack_resistance(battery: Battery) -> float | None:
     """Internal resistance of the whole pack in ohm, if the builder gave the cells'."""
     if battery.cell_internal_resistance is None:
         return None
-    cell = battery.cell_internal_resistance.m_as("ohm")
+    cell = in_unit(battery.cell_internal_resistance, "ohm")
     return cell * battery.cells_series / battery.cells_parallel
 
 
 def wire_resistance(wire: Wire, temperature_c: float = 20.0) -> float:
-    return conductor_resistance(wire.area.m_as(unit("mm**2")), wire.length.m_as("m"), temperature_c)
+    return conductor_resistance(wire_area_mm2(wire), in_unit(wire.length, "m"), temperature_c)
+
+
+def wire_area_mm2(wire: Wire) -> float:
+    if wire.cross_section is not None:
+        return in_unit(wire.cross_section, "mm**2")
+    return awg_area(wire.gauge or "")
 
 
 def motor_of(build: Build, wire: Wire) -> Motor | None:
@@ -74,12 +93,27 @@ class StallLoop:
     pack_resistance_known: bool
 
 
+# Many rules ask for the stall loop of the same build in turn: keep the last one. Holding the
+# build itself (not its id) makes the identity test sound; builds are frozen.
+_last_stall_loop: tuple[Build, float, StallLoop | None] | None = None
+
+
 def stall_loop(build: Build, temperature_c: float = 20.0) -> StallLoop | None:
     """V = I_total R_shared + I_k R_k for each motor k; None where an input is missing.
 
     With G = sum(1/R_k): I_total = V G / (1 + R_shared G). Cold (20 degC) resistances give the
     highest current, which is what wires and fuses must survive.
     """
+    global _last_stall_loop
+    memo = _last_stall_loop
+    if memo is not None and memo[0] is build and memo[1] == temperature_c:
+        return memo[2]
+    loop = _solve_stall_loop(build, temperature_c)
+    _last_stall_loop = (build, temperature_c, loop)
+    return loop
+
+
+def _solve_stall_loop(build: Build, temperature_c: float) -> StallLoop | None:
     if build.battery is None or not build.motors:
         return None
     if any(m.winding_resistance is None for m in build.motors):
@@ -89,12 +123,12 @@ def stall_loop(build: Build, temperature_c: float = 20.0) -> StallLoop | None:
     shared = (internal or 0.0) + sum(wire_resistance(w, temperature_c) for w in shared_wires(build))
     switch = 0.0
     if build.controller is not None and build.controller.switch_on_resistance is not None:
-        switch = build.controller.switch_on_resistance.m_as("ohm")
+        switch = in_unit(build.controller.switch_on_resistance, "ohm")
     branches: dict[str, float] = {}
     for motor in build.motors:
         assert motor.winding_resistance is not None
         branches[motor.name] = (
-            motor.winding_resistance.m_as("ohm")
+            in_unit(motor.winding_resistance, "ohm")
             + switch
             + sum(wire_resistance(w, temperature_c) for w in branch_wires(build, motor))
         )
@@ -109,12 +143,12 @@ def current_limit(build: Build) -> float | None:
     """The controller's per-motor current limit in A, or None where nothing limits current."""
     if build.controller is None or build.controller.current_limit is None:
         return None
-    return build.controller.current_limit.m_as("A")
+    return in_unit(build.controller.current_limit, "A")
 
 
 def ambient_temperature(build: Build, default_c: float) -> float:
     if build.usage.ambient_temperature is not None:
-        return build.usage.ambient_temperature.m_as("degC")
+        return in_unit(build.usage.ambient_temperature, "degC")
     return default_c
 
 
@@ -130,31 +164,15 @@ def stall_currents(
 
 
 # --- The drive model: motors, gearing and vehicle, shared by speed, braking and hill rules -----
-# Imported here rather than at the top because this section was appended to a shared module.
-import pint  # noqa: E402
-
-from reviewer.engineering.roadload import Drive, DriveMotor  # noqa: E402
-from reviewer.findings import Assumption  # noqa: E402
-from reviewer.profile import Profile  # noqa: E402
-
-
-def magnitude_in(quantity: pint.Quantity, target: pint.Unit) -> float:
-    """Magnitude in ``target``; build fields already sit in their fixed unit, so skip pint's
-    conversion (the slow part of a review) when they do."""
-    if quantity.units == target:
-        return float(quantity.magnitude)
-    return float(quantity.m_as(target))
 
 
 def motor_kv(motor: Motor) -> float | None:
     """Kv in rpm/V: given, or no-load speed over rated voltage (as ``Motor.effective_kv``, in
     floats: pint division is slow)."""
     if motor.kv is not None:
-        return magnitude_in(motor.kv, unit("rpm/V"))
+        return in_unit(motor.kv, unit("rpm/V"))
     if motor.no_load_speed is not None and motor.rated_voltage is not None:
-        return magnitude_in(motor.no_load_speed, unit("rpm")) / magnitude_in(
-            motor.rated_voltage, unit("V")
-        )
+        return in_unit(motor.no_load_speed, unit("rpm")) / in_unit(motor.rated_voltage, unit("V"))
     return None
 
 
@@ -214,7 +232,7 @@ def drive_model(
                 )
             )
         else:
-            no_load = magnitude_in(motor.no_load_current, unit("A"))
+            no_load = in_unit(motor.no_load_current, unit("A"))
         motors.append(DriveMotor(kv, loop.branch_resistance[motor.name], no_load))
     usage = build.usage
     if usage.rolling_resistance is not None:
@@ -224,26 +242,26 @@ def drive_model(
         crr = float(limit.value)  # type: ignore[arg-type]
         notes.append(Assumption(f"Rolling resistance not given: Crr {crr:g} taken.", limit.source))
     if usage.drag_area is not None:
-        drag_area = magnitude_in(usage.drag_area, unit("m**2"))
+        drag_area = in_unit(usage.drag_area, unit("m**2"))
     else:
         limit = profile.limit("usage.default_drag_area")
-        drag_area = magnitude_in(limit.quantity, unit("m**2"))
+        drag_area = in_unit(limit.quantity, unit("m**2"))
         notes.append(Assumption(f"Drag area not given: CdA {drag_area:g} m² taken.", limit.source))
     efficiency = 1.0
     if build.drivetrain.efficiency is not None:
-        efficiency = magnitude_in(build.drivetrain.efficiency, unit("percent")) / 100.0
+        efficiency = in_unit(build.drivetrain.efficiency, unit("percent")) / 100.0
     else:
         notes.append(
             Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")
         )
     duty = 1.0
     if build.controller is not None and build.controller.max_duty is not None:
-        duty = magnitude_in(build.controller.max_duty, unit("percent")) / 100.0
+        duty = in_unit(build.controller.max_duty, unit("percent")) / 100.0
     drive = Drive(
         motors=tuple(motors),
         full_voltage=loop.voltage,
         reduction=build.drivetrain.reduction,
-        wheel_radius=magnitude_in(build.drivetrain.wheel_diameter, unit("mm")) / 2000.0,
+        wheel_radius=in_unit(build.drivetrain.wheel_diameter, unit("mm")) / 2000.0,
         rolling_resistance=crr,
         drag_area=drag_area,
         shared_resistance=loop.shared_resistance,
@@ -255,27 +273,6 @@ def drive_model(
 
 
 # --- Wire ampacity and the pack's small loads, shared by the battery and protection rules -----
-# Imported here rather than at the top because this section was appended to a shared module.
-from reviewer.engineering.conductors import (  # noqa: E402
-    Ampacity,
-    awg_for_area,
-    datasheet_ampacity,
-    parse_awg,
-    tabulated_ampacity,
-)
-
-
-def in_unit(amount: pint.Quantity, target: str) -> float:
-    """A quantity's magnitude in ``target`` (a unit text, parsed once through the unit cache).
-
-    Build fields are parsed into their dimension's fixed unit through that same cache, so they
-    share its unit object and need no conversion: the identity test costs well under a
-    microsecond, where pint's ``m_as`` (or even ``units ==``) costs tens. Anything else, a
-    profile limit in another unit, is converted properly."""
-    units = unit(target)
-    if amount._units is units._units:
-        return float(amount.magnitude)
-    return float(amount.m_as(units))
 
 
 def wire_awg(wire: Wire) -> int:

@@ -33,6 +33,19 @@ def unit(text: str) -> pint.Unit:
     return ureg.Unit(text)
 
 
+def in_unit(amount: pint.Quantity, target: str | pint.Unit) -> float:
+    """A quantity's magnitude in ``target``.
+
+    Build fields are parsed into their dimension's fixed unit through the unit cache, so they
+    share its unit object and need no conversion: the identity test costs well under a
+    microsecond, where pint's ``m_as`` (or even ``units ==``) costs tens. Anything else, a
+    profile limit in another unit say, is converted properly."""
+    units = unit(target) if isinstance(target, str) else target
+    if amount._units is units._units:
+        return float(amount.magnitude)
+    return float(amount.m_as(units))
+
+
 def quantity(value: float, unit_text: str) -> pint.Quantity:
     """Build a quantity from a float and a unit string through the unit cache."""
     return Quantity(value, unit(unit_text))

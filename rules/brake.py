@@ -65,7 +65,7 @@ FLAT = Source(
     "g 9.80665 m/s^2 (CGPM)"
 )
 
-_in = derived.magnitude_in  # skips pint's conversion for fields already in the unit asked
+_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
 _A = u.unit("A")
 _OHM = u.unit("ohm")
 _KG = u.unit("kg")

@@ -32,19 +32,8 @@ class Stall:
     motor: str
 
 
-# The three controller rules run one after another on the same build: keep its stall loop for
-# the next one. Holding the build itself (not its id) makes the identity test sound.
-_last_loop: tuple[Build, derived.StallLoop | None] | None = None
-
-
 def _stall_loop(build: Build) -> derived.StallLoop | None:
-    global _last_loop
-    cached = _last_loop
-    if cached is not None and cached[0] is build:
-        return cached[1]
-    loop = derived.stall_loop(build)
-    _last_loop = (build, loop)
-    return loop
+    return derived.stall_loop(build)  # remembered there for the next rule on the same build
 
 
 def current_limit(build: Build) -> float | None:

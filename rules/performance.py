@@ -45,7 +45,7 @@ COPPER_LOSS = Source.from_memory(
     "rated rise (IEC 60034-1 rating basis)"
 )
 
-_in = derived.magnitude_in  # skips pint's conversion for fields already in the unit asked
+_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
 _A = u.unit("A")
 _KG = u.unit("kg")
 _KMH = u.unit("km/h")

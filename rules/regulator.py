@@ -52,7 +52,7 @@ OVERVOLTAGE = Source.common_practice(
     "pack voltage on the logic rail"
 )
 
-_in = derived.magnitude_in  # skips pint's conversion for fields already in the unit asked
+_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
 _MA = u.unit("mA")
 _V = u.unit("V")
 _W = u.unit("W")
