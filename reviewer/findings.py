@@ -5,9 +5,12 @@ from __future__ import annotations
 import enum
 from collections.abc import Iterable
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import Any
 
 import pint
+
+from reviewer.units import in_unit
 
 
 class Severity(enum.Enum):
@@ -91,7 +94,7 @@ class Finding:
     rule_id: str = ""  # stamped by the engine from the rule that returned it
     title: str = ""  # likewise
 
-    @property
+    @cached_property
     def margin(self) -> float | None:
         """Headroom as a fraction of the limit: positive within, negative beyond.
 
@@ -101,14 +104,14 @@ class Finding:
         if not _both_quantities(self.measured, self.limit) or _is_offset(self.limit):
             return None
         limit = float(self.limit.magnitude)  # a ratio: any common multiplicative unit will do
-        measured = float(self.measured.m_as(self.limit.units))
+        measured = in_unit(self.measured, self.limit.units)
         if limit == 0:
             return None
         if self.comparison is Comparison.AT_MOST:
             return (limit - measured) / abs(limit)
         return (measured - limit) / abs(limit)
 
-    @property
+    @cached_property
     def headroom(self) -> pint.Quantity | None:
         """Limit minus measured (measured minus limit for an at-least check), in the limit's
         unit; a temperature difference comes out in kelvin."""
@@ -119,8 +122,10 @@ class Finding:
             measured = self.measured.to("kelvin").magnitude
             sign = 1 if self.comparison is Comparison.AT_MOST else -1
             return type(self.limit)(sign * (limit - measured), "kelvin")
-        difference = self.limit - self.measured.to(self.limit.units)
-        return difference if self.comparison is Comparison.AT_MOST else -difference
+        difference = float(self.limit.magnitude) - in_unit(self.measured, self.limit.units)
+        if self.comparison is Comparison.AT_LEAST:
+            difference = -difference
+        return type(self.limit)(difference, self.limit.units)
 
     @property
     def sort_key(self) -> tuple[int, str, str]:

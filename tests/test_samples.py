@@ -73,3 +73,26 @@ def test_module_entry_point_runs_a_review() -> None:
     )
     assert done.returncode == 0, done.stderr
     assert done.stdout.startswith("# Pre-ride design review: Quayside Commuter")
+
+
+def test_sample_waivers_and_history_show_in_the_review(tmp_path: Path) -> None:
+    output = tmp_path / "review.md"
+    code = main(
+        [
+            "review",
+            str(SAMPLES / "garage-sprint-board.toml"),
+            "--waivers",
+            str(SAMPLES / "garage-sprint-board.waivers.toml"),
+            "--since",
+            str(SAMPLES / "history" / "garage-sprint-board-rev0.json"),
+            "-o",
+            str(output),
+        ]
+    )
+    text = output.read_text()
+    assert code == 1
+    assert "## Changes since the previous review" in text
+    assert "| battery.cells\\_series | 7 | 6 |" in text
+    assert "## Waivers" in text
+    assert "| applied |" in text
+    assert "a stop finding cannot be waived under this profile" in text
