@@ -9,17 +9,27 @@ usual hobby part, and such contacts are often far below the braking current).
 
 from __future__ import annotations
 
-import math
 from collections.abc import Iterator
-from dataclasses import dataclass
+
+from firstride_rules._brake_backup import (
+    FADES,
+    TO_STANDSTILL,
+    no_brake_finding,
+    standstill_finding,
+)
+from firstride_rules._brake_loops import (
+    BrakingLoop,
+    braking_loops,
+    contact_remedy,
+    force_per_speed,
+    share_remedy,
+)
 
 from reviewer import derived
 from reviewer import units as u
-from reviewer.build import Brake, BrakeKind, Build, Circuit, Motor, Rider
+from reviewer.build import Brake, BrakeKind, Build, Circuit, Rider
 from reviewer.engineering.braking import (
-    added_resistance_for,
     braking_current,
-    braking_force_per_speed,
     rpm_to_ground_speed,
     speed_at_current_rpm,
 )
@@ -41,15 +51,6 @@ GENERATOR = Source.from_memory(
     "Chapman, Electric Machinery Fundamentals: a shorted DC machine generates E = Ke w, "
     "carries I = E / R_loop and brakes with T = Kt I"
 )
-FADES = Source(
-    "Physics of dynamic braking: current and torque are proportional to speed and vanish as "
-    "the wheel stops, so a second, friction brake is needed to stop fully and to hold",
-    SourceStatus.DERIVED,
-)
-TO_STANDSTILL = Source(
-    "Germany, eKFV section 4(1) no. 1: a vehicle's brakes must be able to brake it to a "
-    "standstill (an example national rule)"
-)
 # common practice: dynamic braking force falls to zero as the wheel stops; the usual hobby
 # brake relay has a coil near 60 mA and contacts rated 10 A, far below a shorted motor's current.
 CONTACTS = Source(
@@ -67,33 +68,19 @@ FLAT = Source(
 
 _in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
 _A = u.unit("A")
-_OHM = u.unit("ohm")
 _KG = u.unit("kg")
 _KMH = u.unit("km/h")
 _MS2 = u.unit("m/s**2")
 
 
-@dataclass(frozen=True)
-class _Loop:
-    """One motor's braking loop in SI floats."""
-
-    motor: Motor
-    kv: float  # rpm/V
-    fixed: float  # ohm: winding and brake wires at 20 degC
-    added: float  # ohm: the brake resistor, 0 if none
-    wires: float = 0.0  # ohm: the brake wires' share of ``fixed``
-
-    @property
-    def resistance(self) -> float:
-        return self.fixed + self.added
-
-
 def check(build: Build, profile: Profile) -> Iterator[Output]:
     """A dynamic brake's contact current and deceleration at top speed, and what stops the
-    vehicle once its force has faded.
+    vehicle once its force has faded; and that the vehicle has a brake at all.
 
     What it checks
-      For ``brake.kind`` dynamic (the motor shorted through a relay):
+      ``brake.kind`` none declares a vehicle with no brake: nothing stops it or holds it on a
+      slope. ``brake.kind`` friction has nothing here to check. For ``brake.kind`` dynamic (the
+      motor shorted through a relay):
       1. Braking current at the top speed of the lightest rider (the fastest; the drive model
          of ``speed.rider-class``: pack, motors, gearing, road load on the flat). The motor
          turns at w = v x reduction / wheel radius and drives I = Ke w / R_loop round a loop
@@ -114,75 +101,46 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
          true. The same check applies to a regenerative brake.
 
     Severities
-      - stop: contacts over-rated on a vehicle whose only brake this is (it may weld or burn
-        open when needed).
+      - stop: no brake at all (``brake.kind`` none); contacts over-rated on a vehicle whose
+        only brake this is (it may weld or burn open when needed).
       - fix: contacts over-rated beside a friction brake; no friction brake beside a dynamic
         or regenerative brake; the only brake below the minimum deceleration at top speed.
       - advise: a dynamic brake beside a friction brake below its single-brake share.
-      - pass: within limits; a friction brake, or no brake declared (``none``): nothing here
-        applies, which the finding says.
-      - unassessed: no ``brake`` section; ``brake.friction_brake`` not stated; riders,
+      - pass: within limits; a friction brake: nothing here applies, which the finding says.
+      - unassessed: no ``brake`` section (named as ``brake``); ``brake.friction_brake`` not
+        stated beside a dynamic or regenerative brake; riders,
         ``brake.relay_contact_rating`` or drive-model inputs missing (each named).
 
     Remedies give a brake resistor (rounded up to 0.01 ohm and re-checked, with the
     deceleration it leaves), contacts rated for the current, or engaging the relay only below
     the speed at which the current equals the rating; a friction brake with the deceleration
-    it must reach alone.
+    it must reach alone (for no brake at all, the profile's ``brake.minimum_deceleration``).
     """
     brake = build.brake
     if brake is None:
         yield Finding(
             Severity.UNASSESSED,
             "brake",
-            "The build describes no brake, so whether it shorts the motor is unknown.",
-            missing=("brake.kind",),
+            "The build describes no brake, so neither what stops the vehicle nor whether it "
+            "shorts the motor is known.",
+            missing=("brake",),
         )
         return
-    if brake.kind in (BrakeKind.FRICTION, BrakeKind.NONE):
-        what = "a friction brake" if brake.kind is BrakeKind.FRICTION else "no brake"
+    if brake.kind is BrakeKind.NONE:
+        yield no_brake_finding(brake, profile)
+        return
+    if brake.kind is BrakeKind.FRICTION:
         yield Finding(
             Severity.PASS,
             "brake",
-            f"The build declares {what} (brake.kind {brake.kind.value}). This rule checks "
+            "The build declares a friction brake (brake.kind friction). This rule checks "
             "brakes that short the motor or regenerate, whose force fades at low speed; "
             "nothing of that applies here.",
         )
         return
-    yield _standstill_finding(brake)
+    yield standstill_finding(brake)
     if brake.kind is BrakeKind.DYNAMIC:
         yield from _dynamic(build, brake, profile)
-
-
-def _standstill_finding(brake: Brake) -> Finding:
-    kind = brake.kind.value
-    subject = "brake at low speed"
-    fades = (
-        f"The {kind} brake's force is proportional to the wheel's speed and vanishes as the "
-        "wheel stops"
-    )
-    if brake.friction_brake is None:
-        return Finding(
-            Severity.UNASSESSED,
-            subject,
-            f"{fades}; whether a friction brake is fitted beside it is not stated.",
-            missing=("brake.friction_brake",),
-            sources=(FADES,),
-        )
-    if brake.friction_brake:
-        return Finding(
-            Severity.PASS,
-            subject,
-            f"{fades}; the friction brake beside it stops and holds the vehicle.",
-            sources=(FADES, TO_STANDSTILL),
-        )
-    return Finding(
-        Severity.FIX,
-        subject,
-        f"{fades}, and there is no friction brake: the vehicle can be slowed but neither "
-        "brought to a standstill nor held on a slope.",
-        remedy="fit a friction brake that stops and holds the vehicle on its own",
-        sources=(FADES, TO_STANDSTILL),
-    )
 
 
 def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
@@ -205,7 +163,7 @@ def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
         "Top speed is solved on flat ground in still air at sea-level air density.", FLAT
     )
     yield from notes
-    loops = _loops(build, brake, drive)
+    loops = braking_loops(build, brake, drive)
     if len(loops) > 1:
         yield Assumption(
             "Each motor is taken to be shorted through its own relay contacts of the brake's "
@@ -231,42 +189,11 @@ def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
         yield from _deceleration(brake, drive, loops, rider, mass, speed, minimum, fraction)
 
 
-def _loops(build: Build, brake: Brake, drive: Drive) -> list[_Loop]:
-    added = _in(brake.brake_resistance, _OHM) if brake.brake_resistance else 0.0
-    single = len(build.motors) == 1
-    loops = []
-    for motor, line in zip(build.motors, drive.motors, strict=True):
-        assert motor.winding_resistance is not None
-        wires = sum(
-            derived.wire_resistance(wire)
-            for wire in build.wires
-            if wire.circuit is Circuit.BRAKE
-            and (wire.motor == motor.name or (single and wire.motor is None))
-        )
-        fixed = _in(motor.winding_resistance, _OHM) + wires
-        loops.append(_Loop(motor, line.kv_rpm_per_v, fixed, added, wires))
-    return loops
-
-
-def _coefficient(drive: Drive, loops: list[_Loop], added: float | None = None) -> float:
-    """All motors' braking force per unit ground speed, N s/m; ``added`` puts that brake
-    resistor in every loop instead of the build's."""
-    return sum(
-        braking_force_per_speed(
-            loop.kv,
-            loop.resistance if added is None else loop.fixed + added,
-            drive.reduction,
-            drive.wheel_radius,
-        )
-        for loop in loops
-    )
-
-
 def _contacts(
     brake: Brake,
     drive: Drive,
-    loops: list[_Loop],
-    loop: _Loop,
+    loops: list[BrakingLoop],
+    loop: BrakingLoop,
     rider: Rider,
     speed: float,
     omega: float,
@@ -325,7 +252,7 @@ def _contacts(
         rationale += " As the only brake, it may weld shut or burn open when it is needed."
     remedy = None
     if over:
-        remedy = _contact_remedy(drive, loops, loop, emf, rating, current, ground, speed, mass)
+        remedy = contact_remedy(drive, loops, loop, emf, rating, current, ground, speed, mass)
     sources = [GENERATOR, CONTACTS]
     if severity is Severity.STOP:
         sources.append(ONLY_BRAKE)
@@ -341,38 +268,10 @@ def _contacts(
     )
 
 
-def _contact_remedy(
-    drive: Drive,
-    loops: list[_Loop],
-    loop: _Loop,
-    emf: float,
-    rating: float,
-    current: float,
-    ground: float,
-    speed: float,
-    mass: float,
-) -> str:
-    """A brake resistor that holds the current to the rating (rounded up to 0.01 ohm and
-    re-checked), with the deceleration left if every motor's loop gets the same resistor."""
-    f = u.format_number
-    extra = added_resistance_for(rating, emf, loop.resistance)
-    resistor = math.ceil((loop.added + extra) * 100.0 - 1e-9) / 100.0
-    while emf / (loop.fixed + resistor) > rating:
-        resistor += 0.01
-    coefficient = _coefficient(drive, loops, resistor)
-    return (
-        f"fit a brake resistor of at least {resistor:.2f} ohm in the loop "
-        f"({f(emf / (loop.fixed + resistor))} A at top speed, leaving about "
-        f"{f(coefficient * speed / mass)} m/s² of braking there), or relay contacts rated for "
-        f"at least {math.ceil(current - 1e-9)} A DC, or let the relay close only below "
-        f"{f(ms_to_kmh(ground))} km/h"
-    )
-
-
 def _deceleration(
     brake: Brake,
     drive: Drive,
-    loops: list[_Loop],
+    loops: list[BrakingLoop],
     rider: Rider,
     mass: float,
     speed: float,
@@ -381,7 +280,7 @@ def _deceleration(
 ) -> Iterator[Output]:
     """One rider's deceleration at their own top speed (``mass`` with the vehicle, kg)."""
     f = u.format_number
-    coefficient = _coefficient(drive, loops)
+    coefficient = force_per_speed(drive, loops)
     decel = coefficient * speed / mass
     full = _in(minimum.quantity, _MS2)
     beside_friction = brake.friction_brake is True
@@ -421,7 +320,7 @@ def _deceleration(
             f"fit a friction brake that reaches at least {f(full)} m/s² with this brake, and "
             f"at least {f(full * float(fraction.value))} m/s² on its own"  # type: ignore[arg-type]
             if not beside_friction
-            else _share_remedy(drive, loops, speed, mass, needed, full)
+            else share_remedy(drive, loops, speed, mass, needed, full)
         )
     yield Finding(
         severity,
@@ -434,36 +333,6 @@ def _deceleration(
         sources=(GENERATOR, minimum.source, fraction.source)
         if beside_friction
         else (GENERATOR, minimum.source),
-    )
-
-
-def _share_remedy(
-    drive: Drive, loops: list[_Loop], speed: float, mass: float, needed: float, full: float
-) -> str:
-    """Beside a friction brake: lean on it, or lower the brake resistor (the same in every
-    motor's loop) where that alone reaches ``needed`` at ``speed``."""
-    f = u.format_number
-    text = f"make sure the friction brake alone reaches at least {f(full)} m/s²"
-
-    # Added resistance R such that sum(c_k(fixed_k + R)) v / m = needed, by bisection: the
-    # force falls as R rises.
-    def decel(added: float) -> float:
-        return _coefficient(drive, loops, added) * speed / mass
-
-    present = loops[0].added
-    if present <= 0 or decel(0.0) < needed:
-        return text
-    low, high = 0.0, present
-    for _ in range(60):
-        middle = 0.5 * (low + high)
-        if decel(middle) >= needed:
-            low = middle
-        else:
-            high = middle
-    resistor = math.floor(low * 100.0) / 100.0
-    return (
-        f"{text}, or lower the brake resistor to at most {resistor:.2f} ohm "
-        f"({f(decel(resistor))} m/s²)"
     )
 
 

@@ -47,7 +47,6 @@ BRIDGE = Source.from_memory(
     "bridge has an antiparallel diode that carries the phase current when the switch opens"
 )
 _A = u.unit("A")
-_V = u.unit("V")
 SUBJECT = "freewheel diode"
 
 
@@ -55,6 +54,7 @@ SUBJECT = "freewheel diode"
 class _Needs:
     """What the diode must be rated for; None where an input is missing."""
 
+    reverse: derived.VoltageRating | None  # None without a battery
     voltage: float | None  # V reverse
     average: float | None  # A
     peak: float | None  # A
@@ -72,9 +72,11 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       on flowing: through a freewheel diode across the motor (``controller.freewheel_diode``),
       or, with none, into the switch as avalanche at every turn-off. Brushless motors are driven
       by a three-phase bridge whose switches' own diodes give that path, so they pass as such.
-      A fitted diode's ratings are checked: ``diode_reverse_voltage`` at least the pack's full
-      voltage (``battery``) times the profile's ``voltage.diode_margin`` (the margin the
-      voltage.ratings rule holds the same diode to, so the two agree on the figure);
+      A fitted diode's ratings are checked: ``diode_reverse_voltage`` against the pack's full
+      voltage (``battery``) it blocks while the switch conducts, with the profile's
+      ``voltage.diode_margin`` over it for turn-off ringing. That judgement is
+      ``reviewer.derived.diode_reverse_rating``, the one voltage.ratings makes of the same
+      diode, so the two agree on the figure, the severity and the words;
       ``diode_average_current`` at least the worst average current; ``diode_peak_current`` at
       least the current limit (``controller.current_limit``), or the cold stall current with
       no limit.
@@ -90,14 +92,17 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       assumption.
 
     Severities
-      - stop: a brushed motor and ``freewheel_diode`` false.
-      - fix: a diode rating below what it needs.
+      - stop: a brushed motor and ``freewheel_diode`` false; a reverse rating below the full
+        pack voltage.
+      - fix: a reverse rating between the full pack voltage and its margin; a current rating
+        below what the diode carries.
       - pass: every rating enough; or only brushless motors.
       - unassessed: no motors, ``freewheel_diode`` not stated, or a rating or the figure it is
         compared with unknown (the missing fields are named).
 
     Remedy: the diode to fit, e.g. "fit a diode rated at least 40 V reverse, 15 A average and
-    30 A peak across the motor (cathode to its positive side)".
+    30 A peak across the motor (cathode to its positive side)"; for the reverse rating alone,
+    the reverse voltage to buy, rounded up to a whole volt.
     """
     if not build.motors:
         yield Finding(
@@ -134,7 +139,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         )
         return
     voltage_factor = profile.limit("voltage.diode_margin")
-    needs = _needs(build, voltage_factor)
+    needs = _needs(build, profile, voltage_factor)
     if needs.average_bound:
         yield Assumption(
             "Stall current unknown: the freewheel diode's average current is taken as the whole "
@@ -166,10 +171,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     yield from _ratings(controller, needs, voltage_factor)
 
 
-def _needs(build: Build, voltage_factor: Limit) -> _Needs:
-    voltage = None
-    if build.battery is not None:
-        voltage = derived.pack_voltages(build.battery).full * number(voltage_factor)
+def _needs(build: Build, profile: Profile, voltage_factor: Limit) -> _Needs:
+    reverse = derived.diode_reverse_rating(build, profile)
+    voltage = None if reverse is None else reverse.required
     limit = current_limit(build)
     stall = worst_stall(build, brushed_only=True)
     # With the stall current unknown, the bound as D -> 0: the whole limit.
@@ -179,6 +183,7 @@ def _needs(build: Build, voltage_factor: Limit) -> _Needs:
     if peak is None:
         missing_current = ("controller.current_limit", *stall_missing(build))
     return _Needs(
+        reverse=reverse,
         voltage=voltage,
         average=average,
         peak=peak,
@@ -208,16 +213,27 @@ def _diode_remedy(needs: _Needs) -> str:
 
 def _ratings(controller: Controller, needs: _Needs, voltage_factor: Limit) -> Iterator[Finding]:
     f = u.format_number
+    reverse_sources = (AVALANCHE, voltage_factor.source)
+    if needs.reverse is not None:
+        # judged as voltage.ratings judges the same diode: one function, one severity
+        yield needs.reverse.finding(f"{SUBJECT} reverse voltage", reverse_sources)
+    else:
+        missing = (
+            ()
+            if controller.diode_reverse_voltage is not None
+            else ("controller.diode_reverse_voltage",)
+        )
+        yield Finding(
+            severity=Severity.UNASSESSED,
+            subject=f"{SUBJECT} reverse voltage",
+            rationale=(
+                f"The diode's reverse voltage is checked against the pack's full voltage times "
+                f"{needs.voltage_factor:g}, for turn-off ringing; an input is missing."
+            ),
+            missing=(*missing, *needs.missing_voltage),
+            sources=reverse_sources,
+        )
     checks = (
-        (
-            "reverse voltage",
-            controller.diode_reverse_voltage,
-            _V,
-            needs.voltage,
-            needs.missing_voltage,
-            f"the pack's full voltage times {needs.voltage_factor:g}, for turn-off ringing",
-            (AVALANCHE, voltage_factor.source),
-        ),
         (
             "average current",
             controller.diode_average_current,

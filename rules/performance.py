@@ -8,26 +8,15 @@ the hill, and a current above the motor's rating heats it however slowly the rid
 
 from __future__ import annotations
 
-import math
-from collections.abc import Callable, Generator, Iterator
-from dataclasses import dataclass, replace
+from collections.abc import Generator, Iterator
+from dataclasses import replace
+
+from firstride_rules._performance_climb import Climb, heat_remedy, stall_remedy, steepest_grade
 
 from reviewer import derived
 from reviewer import units as u
 from reviewer.build import Build, Rider
-from reviewer.engineering.motor import torque_constant
-from reviewer.engineering.roadload import (
-    AIR_DENSITY_ISA,
-    STANDARD_GRAVITY,
-    Drive,
-    ground_speed_for,
-    kmh_to_ms,
-    motor_speed_for,
-    ms_to_kmh,
-    road_load_force,
-    top_speed,
-    wheel_force,
-)
+from reviewer.engineering.roadload import AIR_DENSITY_ISA, Drive, kmh_to_ms, ms_to_kmh
 from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Limit, Profile
 from reviewer.rule import Output, Rule
@@ -50,77 +39,6 @@ _A = u.unit("A")
 _KG = u.unit("kg")
 _KMH = u.unit("km/h")
 _PERCENT = u.unit("percent")
-_MAX_REDUCTION = 100.0  # the build model's bound on drivetrain.ratio
-_FEWEST_TEETH = 5  # the build model's bound on pulley teeth
-
-
-@dataclass(frozen=True)
-class _Climb:
-    """The heaviest rider's climb in SI floats."""
-
-    drive: Drive  # with the climb's Crr and efficiency
-    mass: float  # kg, vehicle and rider
-    grade: float  # percent
-    speed: float  # m/s, the steady climbing speed judged (walking pace)
-
-    def load(self, speed: float) -> float:
-        drive = self.drive
-        return road_load_force(
-            self.mass, speed, drive.rolling_resistance, drive.drag_area, self.grade
-        )
-
-    def force(self, drive: Drive, reduction: float) -> Callable[[float], float]:
-        lines = drive.lines()
-        radius, efficiency = drive.wheel_radius, drive.efficiency
-
-        def at(speed: float) -> float:
-            omega = motor_speed_for(speed, reduction, radius)
-            torque = sum(line.torque(omega) for line in lines)
-            return wheel_force(torque, reduction, efficiency, radius)
-
-        return at
-
-    def holds(self, reduction: float | None = None, current_cap: float | None = None) -> bool:
-        """Whether the drive (re-geared, or capped at a lower current) holds the judged speed
-        on the grade."""
-        drive = self.drive
-        if current_cap is not None:
-            limit = drive.current_limit
-            drive = replace(
-                drive, current_limit=current_cap if limit is None else min(limit, current_cap)
-            )
-        ratio = drive.reduction if reduction is None else reduction
-        return self.force(drive, ratio)(self.speed) >= self.load(self.speed)
-
-    def needed_current(self, reduction: float | None = None) -> float:
-        """Current in A each motor carries to hold the judged speed on the grade, all motors
-        at the same current: sum Kt (I - I0) x reduction x eff / r = load."""
-        drive = self.drive
-        ratio = drive.reduction if reduction is None else reduction
-        kts = [torque_constant(motor.kv_rpm_per_v) for motor in drive.motors]
-        shaft = self.load(self.speed) * drive.wheel_radius / (ratio * drive.efficiency)
-        friction = sum(
-            kt * motor.no_load_current for kt, motor in zip(kts, drive.motors, strict=True)
-        )
-        return (shaft + friction) / sum(kts)
-
-    def available_current(self) -> float:
-        """The most current the weakest motor's line gives at the judged speed: the current
-        limit, or the pack over the loop less the back-EMF."""
-        omega = motor_speed_for(self.speed, self.drive.reduction, self.drive.wheel_radius)
-        return min(line.current(omega) for line in self.drive.lines())
-
-    def climbing_speed(self) -> float:
-        """Steady speed in m/s at full throttle on the grade; 0 if it cannot start."""
-        drive = self.drive
-        bound = max(
-            ground_speed_for(line.no_load_speed, drive.reduction, drive.wheel_radius)
-            for line in drive.lines()
-        )
-        force = self.force(drive, drive.reduction)
-        return top_speed(
-            force, self.mass, drive.rolling_resistance, drive.drag_area, bound, self.grade
-        )
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -182,7 +100,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     rider = max(build.riders, key=lambda r: _in(r.mass, _KG))
     mass = _in(build.vehicle.mass, _KG) + _in(rider.mass, _KG)
     grade = _in(build.usage.steepest_grade, _PERCENT)
-    climb = _Climb(drive, mass, grade, kmh_to_ms(_in(climb_speed.quantity, _KMH)))
+    climb = Climb(drive, mass, grade, kmh_to_ms(_in(climb_speed.quantity, _KMH)))
     yield from _climb_findings(build, climb, rider, climb_speed)
 
 
@@ -221,22 +139,8 @@ def _climb_drive(
     return replace(drive, rolling_resistance=crr, efficiency=efficiency)
 
 
-def _steepest_grade(force: float, drag: float, mass: float, crr: float) -> float:
-    """The steepest grade in percent on which ``force`` N (less ``drag`` N) holds ``mass`` kg:
-    the root of Crr cos(theta) + sin(theta) = k, theta = asin(k / sqrt(1 + Crr^2)) - atan(Crr);
-    ``math.inf`` if it would hold the vehicle on a vertical wall."""
-    k = (force - drag) / (mass * STANDARD_GRAVITY)
-    if k < crr:
-        return 0.0
-    reach = k / math.hypot(1.0, crr)
-    if reach >= 1.0:
-        return math.inf
-    theta = math.asin(reach) - math.atan(crr)
-    return 100.0 * math.tan(theta) if theta < math.pi / 2 else math.inf
-
-
 def _climb_findings(
-    build: Build, climb: _Climb, rider: Rider, climb_speed: Limit
+    build: Build, climb: Climb, rider: Rider, climb_speed: Limit
 ) -> Iterator[Output]:
     f = u.format_number
     drive = climb.drive
@@ -259,7 +163,7 @@ def _climb_findings(
     )
     drag = 0.5 * AIR_DENSITY_ISA * drive.drag_area * climb.speed**2
     force = climb.force(drive, drive.reduction)(climb.speed)
-    steepest = _steepest_grade(force, drag, climb.mass, drive.rolling_resistance)
+    steepest = steepest_grade(force, drag, climb.mass, drive.rolling_resistance)
     yield DerivedFigure(
         f"steepest grade held at {f(walking)} km/h, rider '{rider.name}'",
         u.Quantity(min(steepest, 100.0), _PERCENT),
@@ -292,7 +196,7 @@ def _climb_findings(
             measured=u.Quantity(needed, _A),
             limit=u.Quantity(available, _A),
             comparison=Comparison.AT_MOST,
-            remedy=_stall_remedy(build, climb, needed),
+            remedy=stall_remedy(build, climb, needed),
             sources=sources,
         )
         return
@@ -326,84 +230,9 @@ def _climb_findings(
         measured=u.Quantity(needed, _A),
         limit=u.Quantity(lowest, _A),
         comparison=Comparison.AT_MOST,
-        remedy=_heat_remedy(build, climb, lowest) if hot else None,
+        remedy=heat_remedy(build, climb, lowest) if hot else None,
         sources=(*sources, COPPER_LOSS) if hot else sources,
     )
-
-
-def _gearing(build: Build, climb: _Climb, current_cap: float | None) -> str | None:
-    """The least change of gearing, up from the present, at which the climb holds walking pace
-    within ``current_cap`` (and the current limit); None if no gearing in range does."""
-    f = u.format_number
-    drivetrain = build.drivetrain
-    assert drivetrain is not None
-    if drivetrain.motor_pulley_teeth and drivetrain.wheel_pulley_teeth:
-        wheel = drivetrain.wheel_pulley_teeth
-        for teeth in range(drivetrain.motor_pulley_teeth - 1, _FEWEST_TEETH - 1, -1):
-            if climb.holds(wheel / teeth, current_cap):
-                current = climb.needed_current(wheel / teeth)
-                return (
-                    f"fit a motor pulley of {teeth} teeth or fewer with the {wheel}-tooth "
-                    f"wheel pulley ({f(current)} A per motor on the climb)"
-                )
-        return None
-    present = climb.drive.reduction
-    failing, trial = present, present
-    while trial < _MAX_REDUCTION:
-        trial = min(trial * 1.05, _MAX_REDUCTION)
-        if climb.holds(trial, current_cap):
-            break
-        failing = trial
-    else:
-        return None
-    passing = trial
-    while passing - failing > 0.005:
-        middle = 0.5 * (failing + passing)
-        if climb.holds(middle, current_cap):
-            passing = middle
-        else:
-            failing = middle
-    rounded = min(math.ceil(passing * 100.0 - 1e-9) / 100.0, _MAX_REDUCTION)
-    while not climb.holds(rounded, current_cap) and rounded < _MAX_REDUCTION:
-        rounded = min(rounded + 0.01, _MAX_REDUCTION)
-    if not climb.holds(rounded, current_cap):
-        return None
-    return (
-        f"use a reduction of at least {rounded:.2f}:1 motor turns per wheel turn "
-        f"({f(climb.needed_current(rounded))} A per motor on the climb)"
-    )
-
-
-def _stall_remedy(build: Build, climb: _Climb, needed: float) -> str:
-    parts = []
-    gearing = _gearing(build, climb, None)
-    if gearing:
-        parts.append(gearing)
-    limit = climb.drive.current_limit
-    if limit is not None:
-        amps = math.ceil(needed - 1e-9)
-        raised = _Climb(
-            replace(climb.drive, current_limit=float(amps)), climb.mass, climb.grade, climb.speed
-        )
-        if raised.holds():
-            parts.append(
-                f"raise the controller's current limit to at least {amps} A per motor "
-                "(check the wiring and motor heating at that current)"
-            )
-    if not parts:
-        return (
-            f"this drive cannot hold walking pace on {u.format_number(climb.grade)} % at any "
-            "gearing in range: a stronger motor or a higher-voltage pack is needed"
-        )
-    return ", or ".join(parts)
-
-
-def _heat_remedy(build: Build, climb: _Climb, rated: float) -> str:
-    gearing = _gearing(build, climb, rated)
-    keep_short = "keep such climbs short and let the motor cool between them"
-    if gearing:
-        return f"{gearing}, or {keep_short}"
-    return keep_short
 
 
 RULE = Rule(

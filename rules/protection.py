@@ -13,14 +13,21 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
+from firstride_rules._protection_currents import (
+    THIN_WIRE,
+    THINNER_CEILING,
+    Capacity,
+    Design,
+    design_current,
+    protected_wires,
+    wire_capacity,
+)
 
 from reviewer import derived
-from reviewer.build import Build, Circuit, Fuse, Wire
-from reviewer.engineering.conductors import awg_label
+from reviewer.build import Build, Fuse
 from reviewer.engineering.fuses import (
     prospective_fault_current,
     rating_window,
-    small_conductor_limit,
     source_resistance_needed,
 )
 from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
@@ -58,92 +65,12 @@ def _n(value: float) -> str:
 
 
 @dataclass(frozen=True)
-class _Design:
-    """Ib: the current the pack lead carries in normal riding (a lower bound if ``missing``)."""
-
-    current: float
-    how: str
-    missing: tuple[str, ...]
-
-
-@dataclass(frozen=True)
-class _Capacity:
-    """Iz: the most the protected wires may be protected at, and the wire that sets it."""
-
-    current: float | None
-    wire: str
-    basis: str
-    missing: tuple[str, ...]
-
-
-@dataclass(frozen=True)
 class _Fault:
     """The prospective short-circuit current at the controller input, if it can be formed."""
 
     current: float | None
     source: float | None  # pack internal resistance, ohm
     loop: float  # battery-circuit wires, ohm
-
-
-def _design_current(build: Build) -> _Design:
-    """Per motor the controller's current limit, else its rated continuous current (a stall is
-    a fault, not service), plus the logic board and brake relay coil."""
-    limit = derived.current_limit(build)
-    aux = derived.auxiliary_current(build)
-    amps, missing = aux.current, list(aux.missing)
-    for index, motor in enumerate(build.motors):
-        if limit is not None:
-            amps += limit
-        elif motor.rated_current is not None:
-            amps += derived.in_unit(motor.rated_current, "A")
-        else:
-            missing.append(f"motors[{index}].rated_current")
-    if limit is None and len(missing) > len(aux.missing):
-        missing.append("controller.current_limit")
-    if not build.motors:
-        missing.append("motors")
-    count = len(build.motors)
-    if limit is not None:
-        how = f"the {_n(limit)} A current limit" + (f" x {count} motors" if count > 1 else "")
-    else:
-        how = "the motors' rated continuous current, as the controller sets no limit"
-    if aux.parts:
-        how += f", plus the {', '.join(aux.parts)}"
-    return _Design(amps, how, tuple(missing))
-
-
-def _protected(build: Build, fuse: Fuse | None) -> list[tuple[int, Wire]]:
-    """The wires a pack fuse must protect: those it names; else the battery-circuit wires, and
-    the motor wires too when no current limit guards them (the fuse is then their only
-    overload protection; behind a limit, motor wires are the controller's to protect, as NEC
-    240.4(G) leaves motor circuits to Article 430; from memory)."""
-    if fuse is not None and fuse.protects:
-        return [(i, w) for i, w in enumerate(build.wires) if w.name in fuse.protects]
-    circuits = {Circuit.BATTERY}
-    if derived.current_limit(build) is None:
-        circuits.add(Circuit.MOTOR)
-    return [(i, w) for i, w in enumerate(build.wires) if w.circuit in circuits]
-
-
-def _capacity(wires: list[tuple[int, Wire]], ambient: float) -> _Capacity:
-    best: tuple[float, str, str] | None = None
-    missing: list[str] = [] if wires else ["wires"]
-    for index, wire in wires:
-        ampacity = derived.wire_ampacity(wire, ambient)
-        if ampacity is None:
-            field = "temperature_rating" if wire.temperature_rating is None else "rated_ampacity"
-            missing.append(f"wires[{index}].{field}")
-            continue
-        awg = derived.wire_awg(wire)
-        allowed, basis = ampacity.current, f"ampacity, {ampacity.basis}"
-        ceiling = small_conductor_limit(awg)
-        if ceiling is not None and ceiling < allowed:
-            allowed, basis = ceiling, f"NEC 240.4(D) ceiling for {awg_label(awg)}"
-        if best is None or allowed < best[0]:
-            best = (allowed, wire.name, basis)
-    if best is None:
-        return _Capacity(None, "", "", tuple(missing))
-    return _Capacity(best[0], best[1], best[2], tuple(missing))
 
 
 def _fault(build: Build, full: float) -> _Fault:
@@ -160,20 +87,26 @@ def _amps(value: float) -> str:
     return f"{value:.0f} A" if value >= 100 else f"{_n(value)} A"
 
 
-def _window(build: Build, design: _Design, capacity: _Capacity) -> str:
+def _window(build: Build, design: Design, capacity: Capacity) -> str:
     """A fuse rating window, Ib to Iz in whole amperes, or what to change when none fits."""
     low = max(1, math.ceil(design.current - _EPSILON))
     if design.missing and capacity.current is None:
         return "fit a DC-rated fuse between the drive's normal current and the wires' ampacity"
     if capacity.current is None:
         return f"fit a fuse of at least {low} A (the wires' ratings set its upper bound)"
+    unrated = ""
+    if capacity.unrated:
+        names = [f"'{name}'" for name in capacity.unrated]
+        listed = names[0] if len(names) == 1 else ", ".join(names[:-1]) + " and " + names[-1]
+        wires = "wire" if len(names) == 1 else "wires"
+        unrated = f" (and within the ampacity of {wires} {listed}, which the build does not give)"
     if design.missing:
         high = math.floor(capacity.current + _EPSILON)
-        return f"fit a DC-rated fuse of at most {high} A, above the drive's normal current"
+        return f"fit a DC-rated fuse of at most {high} A, above the drive's normal current{unrated}"
     window = rating_window(design.current, capacity.current)
     if window is not None:
         amps = f"{window[0]} A" if window[0] == window[1] else f"{window[0]}-{window[1]} A"
-        return f"fit a {amps} DC-rated fuse"
+        return f"fit a {amps} DC-rated fuse{unrated}"
     remedy = (
         f"no fuse rating fits between the {_n(design.current)} A design current and the "
         f"{_n(capacity.current)} A wire '{capacity.wire}' may be protected at: use wire there "
@@ -190,7 +123,7 @@ def _window(build: Build, design: _Design, capacity: _Capacity) -> str:
 
 
 def _missing_fuse(
-    build: Build, full: float, design: _Design, capacity: _Capacity, fault: _Fault
+    build: Build, full: float, design: Design, capacity: Capacity, fault: _Fault
 ) -> Finding:
     unlimited = derived.current_limit(build) is None
     text = (
@@ -219,7 +152,7 @@ def _missing_fuse(
     )
 
 
-def _coordination(build: Build, fuse: Fuse, design: _Design, capacity: _Capacity) -> Finding:
+def _coordination(build: Build, fuse: Fuse, design: Design, capacity: Capacity) -> Finding:
     rating = derived.in_unit(fuse.rating, "A")
     subject = f"fuse '{fuse.name}' rating"
     text = f"Rated {_n(rating)} A; the design current is {_n(design.current)} A ({design.how})"
@@ -246,7 +179,7 @@ def _coordination(build: Build, fuse: Fuse, design: _Design, capacity: _Capacity
         severity = Severity.UNASSESSED
         text += " Some currents or ratings it is checked against are not given."
     remedy = None if severity is Severity.PASS else _window(build, design, capacity)
-    sources = (COORDINATION, SMALL_CONDUCTORS, AMPACITY)
+    sources = (COORDINATION, SMALL_CONDUCTORS, AMPACITY, *capacity.sources)
     missing = missing if severity is Severity.UNASSESSED else ()
     return Finding(severity, subject, text, measured, limit, comparison, remedy, sources, missing)
 
@@ -258,34 +191,25 @@ def _maybe(amount: pint.Quantity | None, target: str) -> float | None:
 def _interruption(
     build: Build, index: int, fuse: Fuse, full: float, fault: _Fault
 ) -> Iterator[Output]:
-    subject = f"fuse '{fuse.name}' interrupting rating"
-    volts = _maybe(fuse.voltage_rating, "V")
-    breaking = _maybe(fuse.breaking_capacity, "A")
     sources = (SHORT_CIRCUIT, FUSE_VOLTAGE)
-    if volts is not None and volts < full - _EPSILON:
-        yield Finding(
-            Severity.STOP,
-            subject,
-            f"Rated {_n(volts)} V DC, below the {_n(full)} V full pack: its breaking capacity "
-            "holds only up to its rated voltage, so it may arc on instead of clearing a short.",
-            quantity(full, "V"),
-            quantity(volts, "V"),
-            Comparison.AT_MOST,
-            f"use a fuse rated at least {_n(full)} V DC",
-            sources,
-        )
-        return
-    missing = [f"fuses[{index}].voltage_rating"] if volts is None else []
-    if breaking is None:
-        missing.append(f"fuses[{index}].breaking_capacity")
+    rating = derived.fuse_voltage_rating(build, index)
+    assert rating is not None  # the pack is known
+    # judged as voltage.ratings judges the same fuse: one function, one severity, one wording
+    yield rating.finding(f"fuse '{fuse.name}' voltage rating", sources)
+    if rating.severity is Severity.STOP:
+        return  # its breaking capacity holds only up to its rated voltage: nothing to add
+    subject = f"fuse '{fuse.name}' interrupting rating"
+    volts = rating.rated
+    breaking = _maybe(fuse.breaking_capacity, "A")
+    missing = [] if breaking is not None else [f"fuses[{index}].breaking_capacity"]
     if fault.current is None:
         missing += ["battery.cell_internal_resistance", "wires"]
     if missing:
         yield Finding(
             Severity.UNASSESSED,
             subject,
-            "Its DC voltage rating, its breaking capacity and the prospective short-circuit "
-            "current (pack internal resistance or battery wires) are all needed.",
+            "Its breaking capacity and the prospective short-circuit current (pack internal "
+            "resistance or battery wires) are both needed.",
             missing=tuple(missing),
             sources=sources,
         )
@@ -304,7 +228,8 @@ def _interruption(
         )
     else:
         text += f" and {_n(fault.source * 1000)} mΩ inside the pack"
-    text += f"; the fuse breaks up to {_amps(breaking)} at {_n(volts or 0)} V DC."
+    at = f" at {_n(volts)} V DC" if volts is not None else ""
+    text += f"; the fuse breaks up to {_amps(breaking)}{at}."
     remedy = f"use a fuse with a breaking capacity of at least {math.ceil(fault.current)} A DC"
     if fault.source is None:
         remedy = f"give battery.cell_internal_resistance, or {remedy}"
@@ -350,11 +275,20 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
          the wires the fuse protects, of the wire's ampacity (as wiring.stall-current rates it:
          datasheet ``rated_ampacity`` or NEC Table 310.16 / FAA AC 43.13-1B Table 11-9, with
          ambient and bundling corrections) and the NEC 240.4(D) ceiling for 18-10 AWG (7, 10,
-         15, 20, 30 A; a metric wire is read as the heaviest AWG not above its area). The wires
-         it protects: those in ``fuses[i].protects``; else the battery-circuit wires, and also
-         the motor wires when there is no current limit to protect them.
+         15, 20, 30 A; a metric wire is read as the heaviest AWG not above its area). A wire
+         thinner than the tables has no ampacity figure, but an upper bound, as
+         wiring.stall-current words it: the smallest size tabulated, in the column at or below
+         its rating, with the same corrections; and both tables and 240.4(D) rise with size, so
+         a wire thinner than 18 AWG may be protected at no more than 18 AWG's 7 A (derived).
+         The 240.4(D) ceiling applies whether or not the wire's ampacity is known. A fuse above
+         a bound is too large; one within it still needs the wire's datasheet
+         ``rated_ampacity`` (or its ``temperature_rating``). The wires it protects: those in
+         ``fuses[i].protects``; else the battery-circuit wires, and also the motor wires when
+         there is no current limit to protect them.
       3. Interruption of each such fuse: ``fuses[i].voltage_rating`` (DC) at least the full
-         pack voltage (ISO 8820-3 blade fuses: 32 V or 58 V), and ``fuses[i].breaking_capacity``
+         pack voltage (ISO 8820-3 blade fuses: 32 V or 58 V), judged by
+         ``reviewer.derived.fuse_voltage_rating`` as voltage.ratings judges the same fuse; and
+         ``fuses[i].breaking_capacity``, once the voltage rating is not below the pack's,
          at least the prospective short-circuit current at the controller input,
          V_full / (R_pack + R_battery_wires), with R_pack from
          ``battery.cell_internal_resistance`` x series / parallel and the battery-circuit wires
@@ -364,7 +298,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       - stop: no pack-positive fuse and no controller current limit; a fuse rated below the
         full pack voltage; a breaking capacity below the prospective current.
       - fix: no pack-positive fuse where a current limit exists; a rating below Ib (it opens
-        in normal riding) or above Iz or the NEC 240.4(D) ceiling (the wire overheats first).
+        in normal riding) or above Iz, the NEC 240.4(D) ceiling or the upper bound of a wire
+        thinner than the tables (the wire overheats first).
       - pass: within every limit.
       - unassessed: no ``battery``; a current, wire rating, voltage rating or breaking capacity
         needed and not given (named); the worst-case short-circuit current above the breaking
@@ -393,7 +328,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         yield Assumption(
             f"Ambient temperature not given: {_n(ambient)} °C taken for wires.", default.source
         )
-    design = _design_current(build)
+    design = design_current(build)
     fault = _fault(build, full)
     if fault.current is not None:
         note = "pack and battery wires at 20 °C, shorted at the controller input"
@@ -404,11 +339,11 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         )
     fuses = [(i, f) for i, f in enumerate(build.fuses) if f.location == BATTERY_POSITIVE]
     if not fuses:
-        capacity = _capacity(_protected(build, None), ambient)
+        capacity = wire_capacity(protected_wires(build, None), ambient)
         yield _missing_fuse(build, full, design, capacity, fault)
         return
     for index, fuse in fuses:
-        capacity = _capacity(_protected(build, fuse), ambient)
+        capacity = wire_capacity(protected_wires(build, fuse), ambient)
         yield _coordination(build, fuse, design, capacity)
         yield from _interruption(build, index, fuse, full, fault)
 
@@ -417,7 +352,15 @@ RULE = Rule(
     id="protection.fuse",
     title="Fuse at the battery positive: presence, coordination and breaking capacity",
     check=check,
-    sources=(COORDINATION, SMALL_CONDUCTORS, SHORT_CIRCUIT, FUSE_VOLTAGE, AMPACITY),
+    sources=(
+        COORDINATION,
+        SMALL_CONDUCTORS,
+        SHORT_CIRCUIT,
+        FUSE_VOLTAGE,
+        AMPACITY,
+        THIN_WIRE,
+        THINNER_CEILING,
+    ),
     inputs=(
         "battery.chemistry",
         "battery.cells_series",

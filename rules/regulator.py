@@ -8,17 +8,21 @@ goes with it. A switching regulator or a separate 5 V supply avoids that (common
 
 from __future__ import annotations
 
-import math
 from collections.abc import Generator, Iterator
 from dataclasses import dataclass
+
+from firstride_rules._regulator_load import (
+    heat_defaults,
+    heat_remedy,
+    load_current,
+    output_voltage,
+)
 
 from reviewer import derived
 from reviewer import units as u
 from reviewer.build import Build, Logic, Regulator
 from reviewer.engineering.regulator import (
     junction_temperature,
-    largest_thermal_resistance,
-    linear_load_budget,
     linear_regulator_loss,
     switching_input_current,
     switching_loss,
@@ -66,7 +70,7 @@ class _Supply:
     """What the regulator sees, in SI floats."""
 
     input_voltage: float  # V, the highest it is fed
-    input_because: str
+    rating: derived.VoltageRating  # its input maximum against that voltage
     low_input: float  # V, the pack's cut-off (where a switcher draws most)
 
 
@@ -79,7 +83,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       the chemistry's full cell voltage), or ``battery.charger_voltage`` if that is higher,
       since the logic may be powered while charging.
 
-      1. Input: that voltage against ``logic.regulator.input_max``.
+      1. Input: that voltage against ``logic.regulator.input_max``, judged by
+         ``reviewer.derived.regulator_input_rating``, the judgement voltage.ratings makes of
+         the same input, so the two agree on the figure, the severity and the words.
       2. Heat (linear only): the load is ``logic.board_current`` (microcontroller, sensors,
          radio) plus every ``logic.loads[].current`` (all taken on the regulated rail at once)
          plus the brake relay's coil (``brake.coil_current``) unless a logic load that is
@@ -135,9 +141,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         return
     if regulator.kind == "switching":
         estimate = yield from _switching(build, logic, regulator, supply, profile)
-        yield _input_finding(regulator, supply, estimate)
+        yield _input_finding(supply, estimate)
     else:
-        yield _input_finding(regulator, supply)
+        yield _input_finding(supply)
         yield from _linear(build, logic, regulator, supply, profile)
 
 
@@ -159,86 +165,16 @@ def _supply(build: Build, regulator: Regulator) -> _Supply | Finding:
             missing=("battery",),
             sources=(LINEAR_LOSS,),
         )
-    pack = derived.pack_voltages(build.battery)
-    volts, because = pack.full, f"the full voltage of the {build.battery.cells_series}-cell pack"
-    charger = build.battery.charger_voltage
-    if charger is not None and _in(charger, _V) > volts:
-        volts, because = _in(charger, _V), "the charger voltage"
-    return _Supply(volts, because, pack.cutoff)
+    rating = derived.regulator_input_rating(build)
+    assert rating is not None  # fed from the pack, which is described
+    return _Supply(rating.sees, rating, derived.pack_voltages(build.battery).cutoff)
 
 
-def _input_finding(regulator: Regulator, supply: _Supply, estimate: str = "") -> Finding:
-    f = u.format_number
-    vin = supply.input_voltage
-    if regulator.input_max is None:
-        return Finding(
-            Severity.UNASSESSED,
-            "regulator input",
-            f"The regulator sees {f(vin)} V ({supply.input_because}) but its maximum input "
-            f"voltage is not given.{estimate}",
-            missing=("logic.regulator.input_max",),
-            sources=(DATASHEET,),
-        )
-    rating = _in(regulator.input_max, _V)
-    over = vin > rating
-    return Finding(
-        Severity.STOP if over else Severity.PASS,
-        "regulator input",
-        f"The {regulator.kind} regulator sees {f(vin)} V ({supply.input_because}) against "
-        f"its {f(rating)} V maximum input.{estimate}",
-        measured=u.Quantity(vin, _V),
-        limit=u.Quantity(rating, _V),
-        comparison=Comparison.AT_MOST,
-        remedy=(f"use a regulator rated for at least {math.ceil(vin)} V input" if over else None),
-        sources=(DATASHEET, OVERVOLTAGE) if over else (DATASHEET,),
-    )
-
-
-def _output_voltage(logic: Logic, regulator: Regulator) -> float | None:
-    if regulator.output_voltage is not None:
-        return _in(regulator.output_voltage, _V)
-    if logic.supply_voltage is not None:
-        return _in(logic.supply_voltage, _V)
-    return None
-
-
-def _load_current(build: Build, logic: Logic) -> tuple[float, list[Assumption]]:
-    """The regulated rail's load in A: board, pin loads, and the brake coil counted once."""
-    assert logic.board_current is not None
-    total = _in(logic.board_current, _MA) / 1000.0
-    notes: list[Assumption] = []
-    if logic.loads:
-        total += sum(_in(load.current, _MA) / 1000.0 for load in logic.loads)
-        notes.append(
-            Assumption(
-                "Every logic load is taken to draw from the regulated rail, all at once "
-                "(the worst case for the regulator)."
-            )
-        )
-    coil = build.brake.coil_current if build.brake is not None else None
-    if coil is not None:
-        amps = _in(coil, _MA) / 1000.0
-        twin = next(
-            (
-                load
-                for load in logic.loads
-                if load.inductive and math.isclose(_in(load.current, _MA) / 1000.0, amps)
-            ),
-            None,
-        )
-        if twin is None:
-            total += amps
-            notes.append(
-                Assumption("The brake relay coil is taken to be fed from the regulated rail.")
-            )
-        else:
-            notes.append(
-                Assumption(
-                    f"The brake relay coil ({u.format_number(amps * 1000)} mA) is taken to be "
-                    f"logic load '{twin.name}', which draws the same current, and is counted once."
-                )
-            )
-    return total, notes
+def _input_finding(supply: _Supply, estimate: str = "") -> Finding:
+    """The input maximum, judged as voltage.ratings judges it (one function, one severity)."""
+    rating = supply.rating
+    sources = (DATASHEET,) if rating.severity is not Severity.STOP else (DATASHEET, OVERVOLTAGE)
+    return rating.finding("regulator input", sources, estimate)
 
 
 def _switching(
@@ -247,13 +183,13 @@ def _switching(
     """Figures for a switching regulator; returns a sentence with its input current."""
     efficiency_limit = profile.limit("logic.regulator.switching_efficiency")
     efficiency = _in(efficiency_limit.quantity, _PERCENT) / 100.0
-    vout = _output_voltage(logic, regulator)
+    vout = output_voltage(logic, regulator)
     if logic.board_current is None or vout is None:
         return (
             " Its input current is not estimated: the logic board's current or output "
             "voltage is not given."
         )
-    load, notes = _load_current(build, logic)
+    load, notes = load_current(build, logic)
     yield from notes
     low = max(supply.low_input, vout)
     current = switching_input_current(low, vout, load, efficiency)
@@ -291,7 +227,7 @@ def _linear(
     build: Build, logic: Logic, regulator: Regulator, supply: _Supply, profile: Profile
 ) -> Iterator[Output]:
     f = u.format_number
-    vout = _output_voltage(logic, regulator)
+    vout = output_voltage(logic, regulator)
     missing = []
     if regulator.thermal_resistance is None:
         missing.append("logic.regulator.thermal_resistance")
@@ -311,9 +247,9 @@ def _linear(
         return
     assert vout is not None and regulator.thermal_resistance is not None
     vin = supply.input_voltage
-    load, notes = _load_current(build, logic)
+    load, notes = load_current(build, logic)
     yield from notes
-    quiescent, tj_max, ambient = yield from _defaults(build, regulator, profile)
+    quiescent, tj_max, ambient = yield from heat_defaults(build, regulator, profile)
     r_th = _in(regulator.thermal_resistance, _KW)
     subject = "regulator heat"
     yield DerivedFigure("logic rail current", u.Quantity(load * 1000.0, _MA), order=80)
@@ -359,97 +295,13 @@ def _linear(
         measured=u.Quantity(junction, _DEGC),
         limit=u.Quantity(tj_max, _DEGC),
         comparison=Comparison.AT_MOST,
-        remedy=_heat_remedy(profile, vin, vout, load, quiescent, r_th, ambient, tj_max, power)
+        remedy=heat_remedy(profile, vin, vout, load, quiescent, r_th, ambient, tj_max, power)
         if hot
         else None,
         sources=(LINEAR_LOSS, JUNCTION, DATASHEET, TRADE_PRACTICE)
         if hot
         else (LINEAR_LOSS, JUNCTION, DATASHEET),
     )
-
-
-def _defaults(
-    build: Build, regulator: Regulator, profile: Profile
-) -> Generator[Assumption, None, tuple[float, float, float]]:
-    """Quiescent current (A), junction maximum and ambient (degC), noting each default used.
-    A generator that yields the assumptions and returns the three figures."""
-    if regulator.quiescent_current is not None:
-        quiescent = _in(regulator.quiescent_current, _MA) / 1000.0
-    else:
-        limit = profile.limit("logic.regulator.default_quiescent_current")
-        quiescent = _in(limit.quantity, _MA) / 1000.0
-        yield Assumption(
-            f"Regulator quiescent current not given: {u.format_number(quiescent * 1000)} mA taken.",
-            limit.source,
-        )
-    if regulator.max_junction_temperature is not None:
-        tj_max = _in(regulator.max_junction_temperature, _DEGC)
-    else:
-        limit = profile.limit("logic.regulator.default_max_junction_temperature")
-        tj_max = _in(limit.quantity, _DEGC)
-        yield Assumption(
-            f"Regulator maximum junction temperature not given: {u.format_number(tj_max)} °C "
-            "taken.",
-            limit.source,
-        )
-    default = profile.limit("usage.default_ambient_temperature")
-    ambient = derived.ambient_temperature(build, _in(default.quantity, _DEGC))
-    if build.usage.ambient_temperature is None:
-        yield Assumption(
-            f"Ambient temperature not given: {u.format_number(ambient)} °C taken for the "
-            "regulator.",
-            default.source,
-        )
-    return quiescent, tj_max, ambient
-
-
-def _heat_remedy(
-    profile: Profile,
-    vin: float,
-    vout: float,
-    load: float,
-    quiescent: float,
-    r_th: float,
-    ambient: float,
-    tj_max: float,
-    power: float,
-) -> str:
-    """The alternatives, each re-checked against the same junction limit."""
-    f = u.format_number
-    efficiency = (
-        _in(profile.limit("logic.regulator.switching_efficiency").quantity, _PERCENT) / 100.0
-    )
-    drawn = switching_input_current(vin, vout, load, efficiency)
-    parts = [
-        f"use a switching regulator rated for at least {math.ceil(vin)} V input (at about "
-        f"{f(efficiency * 100)} % efficiency it draws {f(drawn * 1000)} mA from the pack and "
-        f"dissipates {f(switching_loss(vout, load, efficiency))} W) or a separate "
-        f"{f(vout)} V supply"
-    ]
-    budget = linear_load_budget(vin, vout, r_th, ambient, tj_max, quiescent)
-    # Whole milliamps, rounded down, and re-checked against the junction limit.
-    budget_ma = math.floor(budget * 1000.0 + 1e-9)
-    while budget_ma > 0:
-        tj = junction_temperature(
-            ambient, linear_regulator_loss(vin, vout, budget_ma / 1000.0, quiescent), r_th
-        )
-        if tj <= tj_max:
-            break
-        budget_ma -= 1
-    if budget_ma > 0:
-        parts.append(
-            f"keep this linear regulator only for a load of at most {budget_ma} mA (now "
-            f"{f(load * 1000)} mA), the rest on another supply"
-        )
-    else:
-        parts.append("this linear regulator cannot carry any load from this pack")
-    needed = math.floor(largest_thermal_resistance(power, ambient, tj_max) * 10.0) / 10.0
-    if needed > 0 and junction_temperature(ambient, power, needed) <= tj_max:
-        parts.append(
-            f"mount it so its junction-to-air thermal resistance is at most {needed:g} K/W "
-            "(a heatsink)"
-        )
-    return "; or ".join(parts)
 
 
 RULE = Rule(

@@ -17,7 +17,7 @@ import pint
 
 from reviewer import derived
 from reviewer.build import Battery, Build, Controller
-from reviewer.engineering.fuses import blade_fuse_voltage
+from reviewer.derived import VoltageRating, whole_volts_up
 from reviewer.findings import (
     Assumption,
     Comparison,
@@ -59,53 +59,19 @@ def _n(value: float) -> str:
     return format_number(value)
 
 
-def _volts_up(value: float) -> str:
-    """A voltage to ask for, rounded up to a whole volt so the remedy itself passes."""
-    return f"{math.ceil(value - 1e-6):d} V"
-
-
 @dataclass(frozen=True)
-class _Rating:
-    """One part's voltage rating and what it must reach."""
+class _Part:
+    """One part the pack reaches: its rating, judged as every rule that checks it judges it
+    (``reviewer.derived.VoltageRating``), and the sources this rule cites for it."""
 
     subject: str
-    field: str  # the build path of the rating
-    rated: float | None  # V
-    floor: float  # V: below it the part fails at full charge (stop)
-    required: float  # V: the rating it should have, margin included
-    short: Severity  # between floor and required
-    why: str  # how ``required`` is formed, in words
-    remedy: str
+    rating: VoltageRating
     sources: tuple[Source, ...]
 
 
-def _judge(part: _Rating) -> Finding:
-    need = f"it needs at least {_n(part.required)} V ({part.why})"
-    if part.rated is None:
-        return Finding(
-            Severity.UNASSESSED,
-            part.subject,
-            f"Its voltage rating is not given; {need}.",
-            missing=(part.field,),
-            sources=part.sources,
-        )
-    if part.rated < part.floor - _EPSILON:
-        severity = Severity.STOP
-        tail = f", below the {_n(part.floor)} V it sees at full charge"
-    elif part.rated < part.required - _EPSILON:
-        severity, tail = part.short, ", above the voltage it sees but short of the margin"
-    else:
-        severity, tail = Severity.PASS, ""
-    return Finding(
-        severity,
-        part.subject,
-        f"Rated {_n(part.rated)} V{tail}; {need}.",
-        quantity(part.rated, "V"),
-        quantity(part.required, "V"),
-        Comparison.AT_LEAST,
-        None if severity is Severity.PASS else part.remedy,
-        (*part.sources, DATASHEET),
-    )
+def _judge(part: _Part) -> Finding:
+    rated = part.rating.rated is not None
+    return part.rating.finding(part.subject, (*part.sources, DATASHEET) if rated else part.sources)
 
 
 def _maybe(amount: pint.Quantity | None) -> float | None:
@@ -118,8 +84,8 @@ def _factor(profile: Profile, key: str) -> tuple[float, Source]:
 
 
 def _switch_parts(
-    controller: Controller, full: float, profile: Profile
-) -> Iterator[_Rating | Assumption]:
+    build: Build, controller: Controller, full: float, profile: Profile
+) -> Iterator[_Part | Assumption]:
     diode = controller.freewheel_diode
     clamped, clamped_source = _factor(profile, "voltage.switch_margin.with_diode")
     bare, bare_source = _factor(profile, "voltage.switch_margin.without_diode")
@@ -135,88 +101,53 @@ def _switch_parts(
             "unclamped turn-off spike.",
             bare_source,
         )
-    remedy = f"use a switch rated at least {_volts_up(full * factor)}"
+    remedy = f"use a switch rated at least {whole_volts_up(full * factor)}"
     if not diode:
         remedy += (
             f", or fit a freewheel diode across the motor, after which "
-            f"{_volts_up(full * clamped)} suffices"
+            f"{whole_volts_up(full * clamped)} suffices"
         )
-    yield _Rating(
-        "motor switch",
+    switch = VoltageRating(
         "controller.switch_max_voltage",
         _maybe(controller.switch_max_voltage),
         full,
         full * factor,
-        Severity.FIX,
         f"{_n(factor)} x the {_n(full)} V full pack, as {how}",
         remedy,
-        (CELL_LIMITS, SWITCH_SPIKE, source),
+        source,
     )
+    yield _Part("motor switch", switch, (CELL_LIMITS, SWITCH_SPIKE, source))
     if diode or (diode is None and controller.diode_reverse_voltage is not None):
-        margin, margin_source = _factor(profile, "voltage.diode_margin")
-        yield _Rating(
-            "freewheel diode",
-            "controller.diode_reverse_voltage",
-            _maybe(controller.diode_reverse_voltage),
-            full,
-            full * margin,
-            Severity.ADVISE,
-            f"{_n(margin)} x the {_n(full)} V full pack it blocks while the switch conducts",
-            f"use a diode with a reverse rating of at least {_volts_up(full * margin)}",
-            (CELL_LIMITS, SWITCH_SPIKE, margin_source),
-        )
+        reverse = derived.diode_reverse_rating(build, profile)
+        assert reverse is not None and reverse.margin_source is not None  # the pack is known
+        yield _Part("freewheel diode", reverse, (CELL_LIMITS, SWITCH_SPIKE, reverse.margin_source))
 
 
-def _parts(build: Build, full: float, profile: Profile) -> Iterator[_Rating | Assumption]:
+def _parts(build: Build, full: float, profile: Profile) -> Iterator[_Part | Assumption]:
     """Every part in the build that the pack voltage reaches, with its requirement."""
-    pack = f"the {_n(full)} V full pack"
     if build.controller is not None:
-        yield from _switch_parts(build.controller, full, profile)
-    regulator = build.logic.regulator if build.logic is not None else None
-    if regulator is not None and regulator.fed_from_pack:
-        yield _Rating(
-            "logic regulator input",
-            "logic.regulator.input_max",
-            _maybe(regulator.input_max),
-            full,
-            full,
-            Severity.STOP,
-            pack,
-            f"use a regulator rated for at least {_volts_up(full)} input",
-            (CELL_LIMITS,),
-        )
-    blade = blade_fuse_voltage(full)
+        yield from _switch_parts(build, build.controller, full, profile)
+    regulator = derived.regulator_input_rating(build)
+    if regulator is not None:
+        yield _Part("logic regulator input", regulator, (CELL_LIMITS,))
     for index, fuse in enumerate(build.fuses):
-        remedy = f"use a fuse rated at least {_n(full)} V DC"
-        if blade is not None:
-            remedy += f" (a {_n(blade)} V ISO 8820-3 blade fuse qualifies)"
-        yield _Rating(
-            f"fuse '{fuse.name}'",
-            f"fuses[{index}].voltage_rating",
-            _maybe(fuse.voltage_rating),
-            full,
-            full,
-            Severity.STOP,
-            f"{pack}, DC",
-            remedy,
-            (CELL_LIMITS, FUSE_VOLTAGE),
-        )
+        rating = derived.fuse_voltage_rating(build, index)
+        assert rating is not None  # the pack is known
+        yield _Part(f"fuse '{fuse.name}'", rating, (CELL_LIMITS, FUSE_VOLTAGE))
     brake = build.brake
     if brake is not None and any(
         value is not None
         for value in (brake.relay_contact_rating, brake.relay_contact_voltage, brake.coil_current)
     ):
-        yield _Rating(
-            "brake relay contacts",
+        contacts = VoltageRating(
             "brake.relay_contact_voltage",
             _maybe(brake.relay_contact_voltage),
             full,
             full,
-            Severity.STOP,
-            f"{pack}, DC",
-            f"use a relay whose contacts are rated at least {_volts_up(full)} DC",
-            (CELL_LIMITS, RELAY_ARC),
+            f"the {_n(full)} V full pack, DC",
+            f"use a relay whose contacts are rated at least {whole_volts_up(full)} DC",
         )
+        yield _Part("brake relay contacts", contacts, (CELL_LIMITS, RELAY_ARC))
 
 
 def _motor_findings(
@@ -250,7 +181,7 @@ def _motor_findings(
         else:
             severity, sources = Severity.FIX, (MOTOR_SPEED, fix_source)
         cells = math.floor(advise * rated / cell_full + _EPSILON)
-        remedy = f"use a motor rated at least {_volts_up(full / advise)}"
+        remedy = f"use a motor rated at least {whole_volts_up(full / advise)}"
         if cells >= 1:
             remedy = (
                 f"use at most {cells} cells in series ({_n(cells * cell_full)} V full); or "
@@ -282,7 +213,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       - freewheel diode (``controller.diode_reverse_voltage``, when a diode is fitted): at
         least full x ``voltage.diode_margin`` (1.25); it blocks the supply while the switch
         conducts;
-      - logic regulator (``logic.regulator.input_max``, when ``fed_from_pack``): at least full;
+      - logic regulator (``logic.regulator.input_max``, when ``fed_from_pack``): at least full,
+        or ``battery.charger_voltage`` where that is higher (the logic may run while charging);
       - every fuse (``fuses[i].voltage_rating``, DC): at least full; a fuse interrupts only at
         or below its rated voltage (ISO 8820-3 blade fuses come in 32 V and 58 V: a 32 V fuse
         is invalid on a 10-cell Li-ion pack at 42 V);
@@ -291,12 +223,15 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       - every motor (``motors[i].rated_voltage``): its speed scales with voltage, so full over
         rated is its overspeed ratio, within ``voltage.motor_overvoltage.advise`` (1.25).
 
+    The switch, diode, regulator and fuse ratings are judged by ``reviewer.derived``'s
+    ``VoltageRating``, which controller.freewheel, logic.regulator and protection.fuse use for
+    the same parts: one judgement, one severity, one wording of the limit.
+
     Severities
-      - stop: a switch, diode, regulator, fuse or relay rated below the full pack voltage.
-      - fix: a switch between full voltage and its spike margin; a motor's overspeed ratio
-        above ``voltage.motor_overvoltage.fix`` (1.5).
-      - advise: a diode between full voltage and its margin; a motor's ratio between 1.25 and
-        1.5.
+      - stop: a switch, diode, regulator, fuse or relay rated below the voltage it sees.
+      - fix: a switch or diode between the voltage it sees and its margin; a motor's overspeed
+        ratio above ``voltage.motor_overvoltage.fix`` (1.5).
+      - advise: a motor's ratio between 1.25 and 1.5.
       - pass: rated at or above its requirement; a build with no rated part besides the pack.
       - unassessed: no ``battery``; a present part's rating not given (the field is named).
 
@@ -354,6 +289,7 @@ RULE = Rule(
         "controller.diode_reverse_voltage",
         "logic.regulator.input_max",
         "logic.regulator.fed_from_pack",
+        "battery.charger_voltage",
         "fuses[].voltage_rating",
         "brake.relay_contact_voltage",
         "motors[].rated_voltage",

@@ -11,7 +11,9 @@ from __future__ import annotations
 import re
 
 import pytest
-from firstride_rules.battery import DISCHARGE_RULE, PROTECTION_RULE, RULES
+from firstride_rules.battery import RULES
+from firstride_rules.battery_discharge import RULE as DISCHARGE_RULE
+from firstride_rules.battery_protection import RULE as PROTECTION_RULE
 
 from reviewer.engineering.cells import (
     CELL_VOLTAGES,
@@ -133,10 +135,11 @@ def test_string_capability_takes_the_lower_rating():
 # --- battery.discharge ------------------------------------------------------------------------
 
 
-def test_rules_are_exported_without_a_single_rule_name():
-    import firstride_rules.battery as module
+def test_each_rule_has_its_own_module_and_the_battery_module_gathers_them():
+    import firstride_rules.battery as gathering
 
-    assert not hasattr(module, "RULE")
+    assert not hasattr(gathering, "RULE")
+    assert RULES == (DISCHARGE_RULE, PROTECTION_RULE)
     assert [r.id for r in RULES] == ["battery.discharge", "battery.protection"]
     for rule in RULES:
         assert "Severities" in rule.doc and rule.sources

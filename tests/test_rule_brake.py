@@ -225,16 +225,32 @@ def test_regenerative_brake_needs_a_friction_brake_too() -> None:
     assert findings["brake at low speed"].severity is Severity.FIX
 
 
-@pytest.mark.parametrize("kind", ["friction", "none"])
-def test_not_a_motor_brake_passes_and_says_why(kind: str) -> None:
-    findings = run_rule_on(RULE, kart(brake={"kind": kind}))
+def test_a_friction_brake_passes_and_says_why() -> None:
+    findings = run_rule_on(RULE, kart(brake={"kind": "friction"}))
     assert [f.severity for f in findings] == [Severity.PASS]
-    assert f"brake.kind {kind}" in findings[0].rationale
+    assert "brake.kind friction" in findings[0].rationale
 
 
-def test_no_brake_section_is_unassessed() -> None:
+@pytest.mark.parametrize("friction_brake", [None, False, True])
+def test_no_brake_at_all_is_a_stop_naming_a_friction_brake(friction_brake: bool | None) -> None:
+    # Germany, eKFV section 4(1) no. 1 (an example national rule): the brakes must bring the
+    # vehicle to a standstill; no. 3: at least 3.5 m/s^2 (the default profile's limit)
+    brake: dict[str, Any] = {"kind": "none"}
+    if friction_brake is not None:
+        brake["friction_brake"] = friction_brake
+    (finding,) = run_rule_on(RULE, kart(brake=brake))
+    assert finding.severity is Severity.STOP
+    assert "has no brake" in finding.rationale
+    assert finding.remedy is not None
+    assert finding.remedy.startswith("fit a friction brake")
+    assert "3.5 m/s²" in finding.remedy
+    # a contradictory build is told how to say what it has, not passed
+    assert ("brake.kind friction" in finding.rationale) is bool(friction_brake)
+
+
+def test_no_brake_section_is_unassessed_naming_the_brake() -> None:
     findings = run_rule_on(RULE, kart(brake=None))
-    assert [f.missing for f in findings] == [("brake.kind",)]
+    assert [f.missing for f in findings] == [("brake",)]
     assert findings[0].severity is Severity.UNASSESSED
 
 

@@ -271,7 +271,41 @@ def test_low_reverse_rating_is_fix() -> None:
     )
     assert finding.severity is Severity.FIX
     assert finding.limit.m_as("V") == pytest.approx(FULL_VOLTAGE * 1.25)
-    assert "at least 37 V reverse" in finding.remedy
+    assert finding.remedy == "use a diode with a reverse rating of at least 37 V"
+    rerun = build(diode_reverse_voltage="37 V")
+    assert by_subject(run_rule_on(FREEWHEEL, rerun), finding.subject).severity is Severity.PASS
+
+
+def test_reverse_rating_below_the_full_pack_is_stop() -> None:
+    # a 25 V diode under a 29.4 V full pack (4.2 V a cell, from memory) breaks down while the
+    # switch conducts: a stop, as voltage.ratings judges the same diode (it was a fix here)
+    finding = by_subject(
+        run_rule_on(FREEWHEEL, build(diode_reverse_voltage="25 V")),
+        "freewheel diode reverse voltage",
+    )
+    assert finding.severity is Severity.STOP
+    assert "below the 29.4 V it sees" in finding.rationale
+
+
+@pytest.mark.parametrize("rating", ["25 V", "29.4 V", "35 V", "36.75 V", "60 V", None])
+def test_reverse_rating_is_judged_as_voltage_ratings_judges_it(rating: str | None) -> None:
+    # one diode, one judgement: the same severity, limit, words and remedy in both rules
+    from firstride_rules.voltage import RULE as VOLTAGE
+
+    data = build(diode_reverse_voltage=rating)
+    ours = by_subject(run_rule_on(FREEWHEEL, data), "freewheel diode reverse voltage")
+    theirs = by_subject(run_rule_on(VOLTAGE, data), "freewheel diode")
+    assert ours.severity is theirs.severity
+    assert (ours.measured, ours.limit, ours.comparison) == (
+        theirs.measured,
+        theirs.limit,
+        theirs.comparison,
+    )
+    assert (ours.rationale, ours.remedy, ours.missing) == (
+        theirs.rationale,
+        theirs.remedy,
+        theirs.missing,
+    )
 
 
 def test_unknown_stall_takes_the_whole_limit_as_average() -> None:

@@ -172,6 +172,93 @@ def test_wire_rating_unknown_is_unassessed():
     assert finding.missing == ("wires[0].temperature_rating",)
 
 
+# --- wires thinner than the tables ------------------------------------------------------------
+
+
+def thin(gauge=22, rating="60 degC", **extra):
+    """Two pack wires of a size neither NEC Table 310.16 (14-8 AWG) nor FAA Table 11-9 (18-10
+    AWG) lists, nor NEC 240.4(D) (18-10 AWG)."""
+    return [
+        wire(name, gauge, insulation="pvc", temperature_rating=rating, **extra)
+        for name in ("pack positive", "pack negative")
+    ]
+
+
+def test_a_30_amp_fuse_on_22_awg_is_judged_not_unassessed():
+    # NEC 240.4(D): 18 AWG may be protected at no more than 7 A, and its ceilings rise with
+    # size, so 22 AWG at no more than 7 A (derived); 30 A is over it: the wire overheats first
+    finding = by_subject(build(fuse("30 A"), wires=thin()))["fuse 'main' rating"]
+    assert finding.severity is Severity.FIX
+    assert finding.limit.m_as("A") == pytest.approx(7)
+    assert "NEC 240.4(D) ceiling for 18 AWG" in finding.rationale
+    assert "thinner 22 AWG wire" in finding.rationale
+    # Ib 12 A (the current limit) over 7 A: no rating fits; a 7 A limit does
+    assert finding.remedy.startswith("no fuse rating fits")
+    assert "set the current limit at or below 7 A" in finding.remedy
+    assert finding.missing == ()
+
+
+def test_the_table_bound_limits_a_thin_wire_in_hot_air():
+    # NEC Table 310.16: 14 AWG, 60 degC column, 15 A at 30 degC; at 55 degC ambient the
+    # correction is sqrt((60 - 55) / (60 - 30)) = 0.408 (NEC 310.15(B) table: 0.41 for
+    # 51-55 degC, from memory), 6.1 A: a thinner 22 AWG wire carries no more than that, below
+    # the 7 A NEC 240.4(D) bound, so a 7 A fuse is too large
+    data = build(fuse("7 A"), wires=thin(), limit="3 A")
+    data["usage"]["ambient_temperature"] = "55 degC"
+    finding = by_subject(data)["fuse 'main' rating"]
+    assert finding.severity is Severity.FIX
+    assert finding.limit.m_as("A") == pytest.approx(15 * 0.41, rel=0.01)
+    assert "NEC Table 310.16, 14 AWG, 60 °C column: 15 A" in finding.rationale
+
+
+def test_the_bound_is_worded_as_the_wiring_rule_words_it():
+    from firstride_rules.wiring import RULE as WIRING
+
+    # a 10 A limit over the 6.1 A bound: the wiring rule fails the wire on the same bound
+    data = build(fuse("7 A"), wires=thin(), limit="10 A")
+    data["motors"][0]["winding_resistance"] = "1 ohm"
+    data["usage"]["ambient_temperature"] = "55 degC"
+    ours = by_subject(data)["fuse 'main' rating"].rationale
+    wiring = next(f for f in run_rule_on(WIRING, data) if f.subject == "wire 'pack positive'")
+    phrase = "an upper bound from the smallest size tabulated (NEC Table 310.16, 14 AWG, 60 °C"
+    assert phrase in ours and phrase in wiring.rationale
+    start = ours.index("at most ")
+    assert ours[start : ours.index(")", start) + 1] in wiring.rationale
+
+
+def test_a_fuse_within_the_bound_still_needs_the_thin_wires_datasheet():
+    # 3 A is within 7 A (NEC 240.4(D), 18 AWG) but only the datasheet shows 22 AWG carries it
+    finding = by_subject(build(fuse("3 A"), wires=thin(), limit="2 A"))["fuse 'main' rating"]
+    assert finding.severity is Severity.UNASSESSED
+    assert finding.missing == ("wires[0].rated_ampacity", "wires[1].rated_ampacity")
+    assert finding.remedy == (
+        "fit a 2-7 A DC-rated fuse (and within the ampacity of wires 'pack positive' and "
+        "'pack negative', which the build does not give)"
+    )
+
+
+def test_a_thin_wire_with_a_datasheet_rating_keeps_the_240_4_d_bound():
+    # its datasheet figure is known, but 22 AWG may be protected at no more than 18 AWG's 7 A
+    # (NEC 240.4(D), derived for a thinner wire); 5 A passes, 10 A does not
+    wires = thin(rated_ampacity="10 A")
+    low = by_subject(build(fuse("5 A"), wires=wires, limit="4 A"))["fuse 'main' rating"]
+    assert low.severity is Severity.PASS
+    high = by_subject(build(fuse("10 A"), wires=wires, limit="4 A"))["fuse 'main' rating"]
+    assert high.severity is Severity.FIX
+    assert high.limit.m_as("A") == pytest.approx(7)
+
+
+def test_240_4_d_applies_to_a_wire_without_a_temperature_rating():
+    # NEC 240.4(D): 12 AWG at most 20 A whatever its insulation: a 30 A fuse is too large even
+    # before the wire's ampacity is known
+    wires = [wire("pack positive", 12), wire("pack negative", 12)]
+    for each in wires:
+        del each["temperature_rating"]
+    finding = by_subject(build(fuse("30 A"), wires=wires))["fuse 'main' rating"]
+    assert finding.severity is Severity.FIX
+    assert finding.limit.m_as("A") == pytest.approx(20)
+
+
 # --- interruption -----------------------------------------------------------------------------
 
 
@@ -183,8 +270,39 @@ def test_wire_rating_unknown_is_unassessed():
     ],
 )
 def test_blade_fuse_voltage_on_a_ten_cell_pack(voltage, severity):
-    finding = by_subject(build(fuse(voltage=voltage)))["fuse 'main' interrupting rating"]
+    findings = by_subject(build(fuse(voltage=voltage)))
+    finding = findings["fuse 'main' voltage rating"]
     assert finding.severity is severity
+    assert finding.limit.m_as("V") == pytest.approx(FULL)
+    assert finding.comparison is Comparison.AT_LEAST
+    if severity is Severity.STOP:
+        # its breaking capacity holds only up to its rated voltage: nothing more to judge
+        assert "fuse 'main' interrupting rating" not in findings
+        assert (
+            finding.remedy
+            == "use a fuse rated at least 42 V DC (a 58 V ISO 8820-3 blade fuse qualifies)"
+        )
+
+
+@pytest.mark.parametrize("voltage", ["32 V", "42 V", "58 V", None])
+def test_fuse_voltage_is_judged_as_voltage_ratings_judges_it(voltage):
+    # one fuse, one judgement: the same severity, limit, words and remedy in both rules
+    from firstride_rules.voltage import RULE as VOLTAGE
+
+    data = build(fuse(voltage=voltage))
+    ours = by_subject(data)["fuse 'main' voltage rating"]
+    theirs = next(f for f in run_rule_on(VOLTAGE, data) if f.subject == "fuse 'main'")
+    assert ours.severity is theirs.severity
+    assert (ours.measured, ours.limit, ours.comparison) == (
+        theirs.measured,
+        theirs.limit,
+        theirs.comparison,
+    )
+    assert (ours.rationale, ours.remedy, ours.missing) == (
+        theirs.rationale,
+        theirs.remedy,
+        theirs.missing,
+    )
 
 
 def test_breaking_capacity_against_the_prospective_current():
@@ -232,11 +350,13 @@ def test_worst_case_within_the_breaking_capacity_passes():
 
 
 def test_missing_fuse_ratings_are_named():
-    finding = by_subject(build(fuse(voltage=None, breaking=None)))[
-        "fuse 'main' interrupting rating"
-    ]
-    assert finding.severity is Severity.UNASSESSED
-    assert finding.missing == ("fuses[0].voltage_rating", "fuses[0].breaking_capacity")
+    findings = by_subject(build(fuse(voltage=None, breaking=None)))
+    voltage = findings["fuse 'main' voltage rating"]
+    assert voltage.severity is Severity.UNASSESSED
+    assert voltage.missing == ("fuses[0].voltage_rating",)
+    breaking = findings["fuse 'main' interrupting rating"]
+    assert breaking.severity is Severity.UNASSESSED
+    assert breaking.missing == ("fuses[0].breaking_capacity",)
 
 
 def test_no_battery_is_unassessed():

@@ -9,7 +9,7 @@ from typing import Any
 import pytest
 from firstride_rules.regulator import RULE
 
-from reviewer.findings import Finding, Severity
+from reviewer.findings import Comparison, Finding, Severity
 from reviewer.testing import rule_outputs, run_rule_on
 
 # An invented scooter: 10S lithium pack (42 V full, 30 V cut-off), a logic board with a sensor
@@ -128,7 +128,10 @@ def test_input_over_the_regulator_maximum_is_stop_and_remedy_passes_when_rerun()
     findings = by_subject(build(logic__regulator__input_max="35 V"))
     finding = findings["regulator input"]
     assert finding.severity is Severity.STOP
-    assert finding.measured.m_as("V") == pytest.approx(42.0)
+    # the rating is measured against what it must reach, as voltage.ratings states it
+    assert finding.measured.m_as("V") == pytest.approx(35.0)
+    assert finding.limit.m_as("V") == pytest.approx(42.0)
+    assert finding.comparison is Comparison.AT_LEAST
     match = re.search(r"rated for at least (\d+) V input", finding.remedy or "")
     assert match, finding.remedy
     rerun = by_subject(build(logic__regulator__input_max=f"{match.group(1)} V"))
@@ -141,7 +144,8 @@ def test_charger_voltage_above_full_is_what_the_regulator_sees() -> None:
     data["logic"]["regulator"]["input_max"] = "42.5 V"
     finding = by_subject(data)["regulator input"]
     assert finding.severity is Severity.STOP
-    assert finding.measured.m_as("V") == pytest.approx(43.0)
+    assert finding.limit.m_as("V") == pytest.approx(43.0)
+    assert "43 V charger" in finding.rationale
 
 
 def test_switching_regulator_passes_and_reports_its_input_current() -> None:
@@ -232,3 +236,25 @@ def test_missing_input_rating_and_pack_are_unassessed() -> None:
     assert [f.missing for f in no_pack] == [("battery",)]
     off_pack = run_rule_on(RULE, build(logic__regulator__fed_from_pack=False))
     assert [f.severity for f in off_pack] == [Severity.UNASSESSED]
+
+
+def test_input_is_judged_as_voltage_ratings_judges_it() -> None:
+    # one judgement for one part: the same severity, limit and words in both rules
+    from firstride_rules.voltage import RULE as VOLTAGE
+
+    for input_max in ("35 V", "42 V", "60 V", None):  # 42 V full: 10 x 4.2 V (from memory)
+        for charger in (None, "43 V"):
+            data = build(logic__regulator__input_max=input_max)
+            if charger is not None:
+                data["battery"]["charger_voltage"] = charger
+            ours = by_subject(data)["regulator input"]
+            theirs = next(
+                f for f in run_rule_on(VOLTAGE, data) if f.subject == "logic regulator input"
+            )
+            assert ours.severity is theirs.severity
+            assert (ours.measured, ours.limit, ours.remedy) == (
+                theirs.measured,
+                theirs.limit,
+                theirs.remedy,
+            )
+            assert ours.rationale.startswith(theirs.rationale)

@@ -4,7 +4,8 @@ Full pack voltages are from memory (Linden, Handbook of Batteries): 4.2 V per Li
 cell, so a 10-cell Li-ion pack is 42 V full and a 6-cell LiPo pack 25.2 V. The blade-fuse
 ratings are ISO 8820-3's (32 V and 58 V DC). Margins are the default profile's (common
 practice): switch 1.25 x full with a freewheel diode, 2 x without; diode 1.25 x; motor overspeed
-advise above 1.25 x, fix above 1.5 x.
+advise above 1.25 x, fix above 1.5 x. A part rated below what it sees is a stop, one short of
+its margin a fix.
 """
 
 from __future__ import annotations
@@ -111,7 +112,14 @@ def test_diode_not_stated_is_held_to_the_unclamped_margin():
 
 @pytest.mark.parametrize(
     ("rating", "severity"),
-    [("60 V", Severity.PASS), ("45 V", Severity.ADVISE), ("40 V", Severity.STOP)],
+    # 42 V full; 1.25 x 42 = 52.5 V with the margin (common practice). Between the two is a
+    # fix, as controller.freewheel judges the same diode (it was an advice here before).
+    [
+        ("60 V", Severity.PASS),
+        ("52.5 V", Severity.PASS),
+        ("45 V", Severity.FIX),
+        ("40 V", Severity.STOP),
+    ],
 )
 def test_freewheel_diode_reverse_rating(rating, severity):
     controller = {
@@ -119,7 +127,11 @@ def test_freewheel_diode_reverse_rating(rating, severity):
         "freewheel_diode": True,
         "diode_reverse_voltage": rating,
     }
-    assert findings(controller=controller)["freewheel diode"].severity is severity
+    finding = findings(controller=controller)["freewheel diode"]
+    assert finding.severity is severity
+    assert finding.limit.m_as("V") == pytest.approx(52.5)
+    if severity is not Severity.PASS:
+        assert finding.remedy == "use a diode with a reverse rating of at least 53 V"
 
 
 def test_missing_switch_and_diode_ratings_are_named():
@@ -134,6 +146,17 @@ def test_regulator_fed_from_the_pack():
     assert findings(SIX_CELL_LIPO, logic=logic)["logic regulator input"].severity is Severity.PASS
     separate = {"regulator": {"kind": "linear", "input_max": "35 V", "fed_from_pack": False}}
     assert "logic regulator input" not in findings(logic=separate)
+
+
+def test_regulator_sees_a_charger_above_the_full_pack():
+    # 6-cell LiPo 25.2 V full (from memory); a 29.4 V charger (7 x 4.2 V) feeds the logic while
+    # charging, as logic.regulator counts it
+    logic = {"regulator": {"kind": "linear", "input_max": "28 V"}}
+    pack = {**SIX_CELL_LIPO, "charger_voltage": "29.4 V"}
+    finding = findings(pack, logic=logic)["logic regulator input"]
+    assert finding.severity is Severity.STOP
+    assert finding.limit.m_as("V") == pytest.approx(29.4)
+    assert finding.remedy == "use a regulator rated for at least 30 V input"
 
 
 def test_brake_relay_contacts():

@@ -82,9 +82,9 @@ def test_sample_waivers_and_history_show_in_the_review(tmp_path: Path) -> None:
             "review",
             str(SAMPLES / "garage-sprint-board.toml"),
             "--waivers",
-            str(SAMPLES / "garage-sprint-board.waivers.toml"),
+            str(SAMPLES / "records" / "garage-sprint-board-waivers.toml"),
             "--since",
-            str(SAMPLES / "history" / "garage-sprint-board-rev0.json"),
+            str(SAMPLES / "records" / "garage-sprint-board-rev0.json"),
             "-o",
             str(output),
         ]
