@@ -411,6 +411,12 @@ class Build(_Model):
     fuses: list[Fuse] = Field(default_factory=list, max_length=MAX_ITEMS)
     enclosure: Enclosure | None = None
     usage: Usage = Usage()
+    extensions: dict[Name, dict[str, object]] = Field(
+        default_factory=dict,
+        max_length=MAX_ITEMS,
+        description="inputs of installed rule packs, one [extensions.<pack>] table each; "
+        "each pack validates its own table (see reviewer.extensions)",
+    )
 
     @model_validator(mode="after")
     def _cross_references(self) -> Build:

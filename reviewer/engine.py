@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 from typing import Any
 
@@ -16,10 +16,11 @@ from reviewer.findings import (
     Verdict,
     decide_verdict,
 )
-from reviewer.plugins import PackProblem
+from reviewer.plugins import PackProblem, setup_findings
 from reviewer.profile import MissingLimit, Profile
 from reviewer.rule import Rule
 from reviewer.waivers import WaiverNote, WaiverSet, apply_waivers
+from reviewer.watchdog import Outcome, RuleTimeout, call_each_with_budget
 
 
 @dataclass(frozen=True)
@@ -53,13 +54,33 @@ class Review:
 
 
 def run_rule(rule: Rule, build: Build, profile: Profile) -> list[object]:
-    """One rule, fenced: whatever it raises or returns wrongly becomes an unassessed finding."""
-    try:
-        outputs = list(rule.check(build, profile))
-    except MissingLimit as exc:
-        return [_unassessed(rule, f"the profile lacks a limit this rule needs: {exc}")]
-    except Exception as exc:  # noqa: BLE001 - a crashing rule must never let a review pass
-        return [_unassessed(rule, f"the rule failed to run: {type(exc).__name__}: {exc}")]
+    """One rule, fenced: whatever it raises or returns wrongly, or a run over the profile's
+    time budget (reviewer.watchdog), becomes an unassessed finding."""
+    return run_rules([rule], build, profile)[0]
+
+
+def run_rules(rules: Sequence[Rule], build: Build, profile: Profile) -> list[list[object]]:
+    """Each rule's outputs, fenced as :func:`run_rule` says; the rules run in order on one
+    worker thread, each within the profile's ``rule_time_budget``."""
+    checks = [_collector(rule, build, profile) for rule in rules]
+    outcomes = call_each_with_budget(checks, profile.rule_time_budget)
+    return [_fenced(rule, outcome) for rule, outcome in zip(rules, outcomes, strict=True)]
+
+
+def _collector(rule: Rule, build: Build, profile: Profile) -> Callable[[], object]:
+    return lambda: list(rule.check(build, profile))
+
+
+def _fenced(rule: Rule, outcome: Outcome) -> list[object]:
+    error = outcome.error
+    if isinstance(error, RuleTimeout):
+        return [_unassessed(rule, str(error))]
+    if isinstance(error, MissingLimit):
+        return [_unassessed(rule, f"the profile lacks a limit this rule needs: {error}")]
+    if error is not None:  # a crashing rule must never let a review pass
+        return [_unassessed(rule, f"the rule failed to run: {type(error).__name__}: {error}")]
+    outputs = outcome.value
+    assert isinstance(outputs, list)
     stamped: list[object] = []
     for item in outputs:
         if isinstance(item, Finding):
@@ -98,10 +119,11 @@ def review(
     findings: list[Finding] = []
     figures: dict[str, DerivedFigure] = {}
     assumptions: dict[str, Assumption] = {}
-    for rule in rules:
-        for item in run_rule(rule, build, profile):
+    rules = [rule for rule in rules if profile.runs(rule.id)]  # the review lists those off
+    for outputs in run_rules(rules, build, profile):
+        for item in outputs:
             if isinstance(item, Finding):
-                findings.append(item)
+                findings.append(profile.adjust(item))  # a profile's escalate_to
             elif isinstance(item, DerivedFigure):
                 figures.setdefault(item.name, item)
             elif isinstance(item, Assumption):
@@ -119,6 +141,7 @@ def review(
                 title=rule_id,
             )
         )
+    findings.extend(setup_findings(profile, rules, problems))  # required packs that failed
     notes: list[WaiverNote] = []
     if waivers is not None:
         findings, notes = apply_waivers(findings, waivers.waivers, known, _stop_waivable(profile))

@@ -3,12 +3,28 @@
 A profile is a TOML file. Its ``[limits]`` tree nests freely; any table holding a ``value`` key
 is one limit, named by its dotted path (``speed.max_speed.adult``). Quantity values are strings
 with units and are parsed once, here, like build fields.
+
+A profile can build on another (``[profile] extends = "default"`` for the built-in one, or a
+path relative to the extending file) and then only says what differs:
+
+- ``[limits]``: a limit of the same name replaces the inherited one (same kind of quantity);
+- ``mandatory_rules`` and ``required_packs`` add to the inherited lists;
+- ``[rules."rule.id"]`` replaces whatever the inherited profile said about that rule:
+  ``escalate_to = "stop"`` reports every fix or advise finding of the rule as at least that
+  severity; ``enabled = false`` switches the rule off, and must come with ``justification``,
+  ``by`` and ``date``, which the review prints;
+- ``rule_time_budget`` (a duration) replaces the inherited one.
+
+Rule packs may ship default limits under their own name (``harbourclub.max_speed``); a profile
+overrides them like any other limit (see :meth:`Profile.with_pack_limits`).
 """
 
 from __future__ import annotations
 
+import hashlib
+import re
 import tomllib
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from importlib import resources
 from pathlib import Path
 from typing import Any
@@ -17,10 +33,27 @@ import pint
 
 from reviewer import units as u
 from reviewer.errors import InputError
-from reviewer.findings import Source, SourceStatus
+from reviewer.findings import Finding, Severity, Source, SourceStatus
+from reviewer.rule import RULE_ID_RE
+from reviewer.rule_settings import RuleSetting, parse_rule_setting, suggest
+from reviewer.watchdog import DEFAULT_BUDGET_S
 
 DEFAULT_PROFILE = "default.toml"
+#: The word ``extends`` uses for the profile shipped with the tool.
+BUILT_IN = "default"
+MAX_EXTENDS_DEPTH = 16
 _STATUS = {s.value: s for s in SourceStatus}
+#: The top-level tables a profile may have; anything else is a typo that would drop limits.
+TABLES = ("profile", "limits", "rules", "waivers")
+_PROFILE_KEYS = (
+    "name",
+    "description",
+    "extends",
+    "mandatory_rules",
+    "required_packs",
+    "rule_time_budget",
+)
+_BUDGET = u.Dimension("s", "2 s", "a duration", 0.0, 600.0, allow_zero=True)
 
 
 @dataclass(frozen=True)
@@ -55,6 +88,10 @@ class Profile:
     mandatory_rules: tuple[str, ...] = ()
     fingerprint: str = ""
     extra: dict[str, Any] = field(default_factory=dict)
+    required_packs: tuple[str, ...] = ()
+    rule_settings: dict[str, RuleSetting] = field(default_factory=dict)
+    rule_time_budget: float = DEFAULT_BUDGET_S  # seconds; 0 runs rules unfenced
+    extends: tuple[str, ...] = ()  # the profiles this one builds on, nearest first
 
     def limit(self, key: str) -> Limit:
         try:
@@ -64,6 +101,43 @@ class Profile:
 
     def get(self, key: str) -> Limit | None:
         return self.limits.get(key)
+
+    def runs(self, rule_id: str) -> bool:
+        """False for a rule this profile switched off."""
+        setting = self.rule_settings.get(rule_id)
+        return setting is None or setting.enabled
+
+    @property
+    def switched_off(self) -> list[RuleSetting]:
+        """Rules switched off, with who, when and why, for the review to print."""
+        return [s for _, s in sorted(self.rule_settings.items()) if not s.enabled]
+
+    @property
+    def escalations(self) -> list[RuleSetting]:
+        return [s for _, s in sorted(self.rule_settings.items()) if s.escalate_to is not None]
+
+    def adjust(self, finding: Finding) -> Finding:
+        """Apply an ``escalate_to`` setting: a fix or advise finding becomes at least that bad."""
+        setting = self.rule_settings.get(finding.rule_id)
+        if setting is None or setting.escalate_to is None:
+            return finding
+        target, severity = setting.escalate_to, finding.severity
+        if severity in (Severity.PASS, Severity.UNASSESSED) or severity.rank <= target.rank:
+            return finding
+        note = (
+            f"Reported as {target.value} rather than {severity.value}: "
+            f"profile '{self.name}' escalates this rule."
+        )
+        return replace(finding, severity=target, rationale=f"{finding.rationale} {note}".strip())
+
+    def with_pack_limits(self, pack_limits: dict[str, Limit]) -> Profile:
+        """This profile over the default limits rule packs ship: the profile's own win."""
+        if not pack_limits:
+            return self
+        return replace(self, limits={**pack_limits, **self.limits})
+
+
+# --- parsing ----------------------------------------------------------------------------------
 
 
 def _parse_limit(key: str, table: dict[str, Any], where: str) -> Limit:
@@ -118,42 +192,186 @@ def _flatten(tree: dict[str, Any], prefix: str, where: str, out: dict[str, Limit
             _flatten(item, path, where, out)
 
 
-def parse_profile(text: str, where: str) -> Profile:
-    import hashlib
+def parse_limits(text: str, where: str) -> dict[str, Limit]:
+    """The ``[limits]`` of a TOML text (a rule pack's default limits, for instance)."""
+    data = _toml(text, where)
+    unknown = sorted(set(data) - {"limits"})
+    if unknown:
+        raise InputError(where, unknown[0], "only [limits.*] tables")
+    limits: dict[str, Limit] = {}
+    _flatten(_table(data, "limits", where), "", where, limits)
+    return limits
 
+
+def _toml(text: str, where: str) -> dict[str, Any]:
     try:
-        data = tomllib.loads(text)
+        return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise InputError(where, "(file)", f"valid TOML ({exc})") from None
+
+
+def _table(data: dict[str, Any], key: str, where: str) -> dict[str, Any]:
+    table = data.get(key, {})
+    if not isinstance(table, dict):
+        raise InputError(where, key, "a table")
+    return table
+
+
+def _names(
+    meta: dict[str, Any], key: str, where: str, pattern: re.Pattern[str], what: str
+) -> tuple[str, ...]:
+    items = meta.get(key, [])
+    if not isinstance(items, list) or not all(isinstance(i, str) for i in items):
+        raise InputError(where, f"profile.{key}", f"a list of {what}")
+    for item in items:
+        if not pattern.match(item):
+            raise InputError(where, f"profile.{key}", f"{what}; {item!r} is not one")
+    return tuple(items)
+
+
+def parse_profile(text: str, where: str) -> Profile:
+    """One profile from its text; ``extends`` is followed relative to ``where``'s folder."""
+    return _without_switched_off(_layered(text, where, ()))
+
+
+def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
+    """The profile over everything it extends, switched-off rules still listed as mandatory
+    (a profile further down may switch them back on)."""
+    from reviewer.plugins import PACK_NAME_RE
+
+    data = _toml(text, where)
+    for table in data:
+        if table not in TABLES:
+            raise InputError(where, table, f"no such table{suggest(table, TABLES)}")
     meta = data.get("profile")
     if not isinstance(meta, dict) or not isinstance(meta.get("name"), str):
         raise InputError(where, "profile.name", "a [profile] table with a name")
+    for key in meta:
+        if key not in _PROFILE_KEYS:
+            raise InputError(where, f"profile.{key}", f"no such key{suggest(key, _PROFILE_KEYS)}")
     limits: dict[str, Limit] = {}
-    _flatten(data.get("limits", {}), "", where, limits)
-    mandatory = meta.get("mandatory_rules", [])
-    if not isinstance(mandatory, list) or not all(isinstance(m, str) for m in mandatory):
-        raise InputError(where, "profile.mandatory_rules", "a list of rule ids")
-    return Profile(
+    _flatten(_table(data, "limits", where), "", where, limits)
+    settings = {
+        rule_id: parse_rule_setting(rule_id, table, where)
+        for rule_id, table in _table(data, "rules", where).items()
+    }
+    budget = None
+    if "rule_time_budget" in meta:
+        try:
+            budget = u.parse_quantity(meta["rule_time_budget"], _BUDGET).m_as("s")
+        except u.QuantityError as exc:
+            raise InputError(where, "profile.rule_time_budget", str(exc)) from None
+    own = Profile(
         name=meta["name"],
         path=where,
         description=str(meta.get("description", "")),
         limits=limits,
-        mandatory_rules=tuple(mandatory),
+        mandatory_rules=_names(meta, "mandatory_rules", where, RULE_ID_RE, "rule ids"),
         fingerprint=hashlib.sha256(text.encode()).hexdigest(),
-        extra={k: v for k, v in data.items() if k not in ("profile", "limits")},
+        extra={k: v for k, v in data.items() if k not in ("profile", "limits", "rules")},
+        required_packs=_names(meta, "required_packs", where, PACK_NAME_RE, "rule pack names"),
+        rule_settings=settings,
+        rule_time_budget=DEFAULT_BUDGET_S if budget is None else float(budget),
     )
+    extends = meta.get("extends")
+    if extends is None:
+        return own
+    if not isinstance(extends, str) or not extends.strip():
+        raise InputError(where, "profile.extends", f"'{BUILT_IN}' or the path of a profile file")
+    parent = _load_parent(extends.strip(), where, (*seen, _identity(where)))
+    return _merge(parent, own, budget is not None, where)
+
+
+def _identity(where: str) -> str:
+    if where.startswith("(built-in)"):
+        return where
+    try:
+        return str(Path(where).resolve())
+    except OSError:
+        return where
+
+
+def _load_parent(extends: str, child: str, seen: tuple[str, ...]) -> Profile:
+    if len(seen) > MAX_EXTENDS_DEPTH:
+        raise InputError(child, "profile.extends", f"at most {MAX_EXTENDS_DEPTH} levels of extends")
+    if extends == BUILT_IN:
+        where = _BUILT_IN_WHERE
+    else:
+        base = Path(child).parent if not child.startswith("(") else Path.cwd()
+        where = str(base / extends)
+    if _identity(where) in seen:
+        chain = " -> ".join([*seen, _identity(where)])
+        raise InputError(child, "profile.extends", f"no cycle ({chain})")
+    if where == _BUILT_IN_WHERE:
+        return _layered(_built_in_text(), where, seen)
+    return _layered(_read_text(where, "profile.extends", child), where, seen)
+
+
+def _merge(parent: Profile, child: Profile, child_budget: bool, where: str) -> Profile:
+    for key, limit in child.limits.items():
+        inherited = parent.limits.get(key)
+        if inherited is not None and not _same_kind(inherited.value, limit.value):
+            raise InputError(
+                where, f"limits.{key}.value", f"the same kind of value as {inherited.value!r}"
+            )
+    return Profile(
+        name=child.name,
+        path=child.path,
+        description=child.description or parent.description,
+        limits={**parent.limits, **child.limits},
+        mandatory_rules=tuple(dict.fromkeys((*parent.mandatory_rules, *child.mandatory_rules))),
+        fingerprint=hashlib.sha256(
+            f"{parent.fingerprint}\n{child.fingerprint}".encode()
+        ).hexdigest(),
+        extra={**parent.extra, **child.extra},
+        required_packs=tuple(dict.fromkeys((*parent.required_packs, *child.required_packs))),
+        rule_settings={**parent.rule_settings, **child.rule_settings},
+        rule_time_budget=child.rule_time_budget if child_budget else parent.rule_time_budget,
+        extends=(parent.path, *parent.extends),
+    )
+
+
+def _same_kind(old: object, new: object) -> bool:
+    if isinstance(old, pint.Quantity) or isinstance(new, pint.Quantity):
+        return (
+            isinstance(old, pint.Quantity)
+            and isinstance(new, pint.Quantity)
+            and old.dimensionality == new.dimensionality
+        )
+    return type(old) is type(new)
+
+
+def _without_switched_off(profile: Profile) -> Profile:
+    """A switched-off rule is no longer mandatory: the review prints why it did not run."""
+    off = {rule_id for rule_id, s in profile.rule_settings.items() if not s.enabled}
+    if not off & set(profile.mandatory_rules):
+        return profile
+    return replace(
+        profile, mandatory_rules=tuple(r for r in profile.mandatory_rules if r not in off)
+    )
+
+
+_BUILT_IN_WHERE = f"(built-in) {DEFAULT_PROFILE}"
+
+
+def _built_in_text() -> str:
+    return resources.files("reviewer.profiles").joinpath(DEFAULT_PROFILE).read_text("utf-8")
+
+
+def _read_text(where: str, field: str = "(file)", referrer: str = "") -> str:
+    reported = referrer or where
+    try:
+        return Path(where).read_text("utf-8")
+    except FileNotFoundError:
+        raise InputError(
+            reported, field, f"an existing profile file ({where} does not exist)"
+        ) from None
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(reported, field, f"a readable UTF-8 text file ({exc})") from None
 
 
 def load_profile(path: str | Path | None = None) -> Profile:
     """Load a profile file, or the default one shipped with the tool."""
     if path is None:
-        text = resources.files("reviewer.profiles").joinpath(DEFAULT_PROFILE).read_text("utf-8")
-        return parse_profile(text, f"(built-in) {DEFAULT_PROFILE}")
-    where = str(path)
-    try:
-        text = Path(path).read_text("utf-8")
-    except FileNotFoundError:
-        raise InputError(where, "(file)", "an existing profile file") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(where, "(file)", f"a readable UTF-8 text file ({exc})") from None
-    return parse_profile(text, where)
+        return parse_profile(_built_in_text(), _BUILT_IN_WHERE)
+    return parse_profile(_read_text(str(path)), str(path))

@@ -1,27 +1,40 @@
-"""Helpers for rule authors' tests: a build from a dict, one rule run, a fresh pack manager.
+"""Helpers for rule authors' tests: a build from a dict, one rule run, a pack loaded strictly.
 
-from reviewer.testing import make_build, run_rule_on
+A pack's tests in a few lines::
 
-def test_my_rule():
-    findings = run_rule_on(MY_RULE, {"vehicle": {"name": "t", "kind": "kart"}})
-    assert findings[0].severity is Severity.UNASSESSED
+    import firstride_harbourclub
+    from reviewer.findings import Severity
+    from reviewer.testing import load_pack, severities
+
+    PACK = load_pack(firstride_harbourclub, "harbourclub")  # refused loudly if faulty
+
+    def test_heavy_vehicle_is_a_fix():
+        findings = PACK.run("harbourclub.vehicle-mass", {"vehicle": {..., "mass": "45 kg"}})
+        assert severities(findings) == [Severity.FIX]
+
+For one rule object without a pack, :func:`run_rule_on` runs it as the engine would.
 """
 
 from __future__ import annotations
 
-from collections.abc import Iterator, Mapping
+import importlib
+from collections.abc import Iterable, Iterator, Mapping
+from dataclasses import dataclass
+from pathlib import Path
 from typing import Any
 
 import pytest
 
+from reviewer import __version__
 from reviewer.build import Build
-from reviewer.engine import run_rule
-from reviewer.findings import Assumption, DerivedFigure, Finding
-from reviewer.plugins import PackManager
-from reviewer.profile import Profile, load_profile
+from reviewer.engine import Review, review, run_rule
+from reviewer.findings import Assumption, DerivedFigure, Finding, Severity
+from reviewer.plugins import BUILT_IN_PACK, PackManager
+from reviewer.profile import Profile, load_profile, parse_profile
 from reviewer.rule import Rule
 
 MINIMAL_VEHICLE = {"name": "test vehicle", "kind": "other"}
+BuildData = Mapping[str, Any] | Build
 
 
 def make_build(data: Mapping[str, Any]) -> Build:
@@ -31,25 +44,103 @@ def make_build(data: Mapping[str, Any]) -> Build:
     return Build.model_validate(tree)
 
 
-def run_rule_on(
-    rule: Rule, data: Mapping[str, Any] | Build, profile: Profile | None = None
-) -> list[Finding]:
+def _build(data: BuildData) -> Build:
+    return data if isinstance(data, Build) else make_build(data)
+
+
+def run_rule_on(rule: Rule, data: BuildData, profile: Profile | None = None) -> list[Finding]:
     """Run one rule as the engine would (fenced and stamped) and return its findings."""
-    build = data if isinstance(data, Build) else make_build(data)
-    outputs = run_rule(rule, build, profile or load_profile())
+    outputs = run_rule(rule, _build(data), profile or load_profile())
     return [item for item in outputs if isinstance(item, Finding)]
 
 
 def rule_outputs(
-    rule: Rule, data: Mapping[str, Any] | Build, profile: Profile | None = None
+    rule: Rule, data: BuildData, profile: Profile | None = None
 ) -> tuple[list[Finding], list[DerivedFigure], list[Assumption]]:
-    build = data if isinstance(data, Build) else make_build(data)
-    outputs = run_rule(rule, build, profile or load_profile())
+    outputs = run_rule(rule, _build(data), profile or load_profile())
     return (
         [o for o in outputs if isinstance(o, Finding)],
         [o for o in outputs if isinstance(o, DerivedFigure)],
         [o for o in outputs if isinstance(o, Assumption)],
     )
+
+
+def severities(findings: Iterable[Finding]) -> list[Severity]:
+    """The severities of some findings, in order: ``assert severities(f) == [Severity.PASS]``."""
+    return [finding.severity for finding in findings]
+
+
+def profile_from(text: str, where: str = "(test profile)") -> Profile:
+    """A profile from TOML text; ``extends = "default"`` builds on the built-in one."""
+    return parse_profile(text, where)
+
+
+@dataclass(frozen=True)
+class LoadedPack:
+    """One pack, registered and validated in a fresh manager of its own."""
+
+    name: str
+    manager: PackManager
+    rules: dict[str, Rule]
+    profile: Profile  # the given (or built-in) profile over the pack's default limits
+
+    def rule(self, rule_id: str) -> Rule:
+        try:
+            return self.rules[rule_id]
+        except KeyError:
+            raise KeyError(
+                f"pack {self.name} has no rule {rule_id!r}: {sorted(self.rules)}"
+            ) from None
+
+    def run(self, rule_id: str, data: BuildData, profile: Profile | None = None) -> list[Finding]:
+        """One rule of the pack over a build (extensions validated first), fenced like the
+        engine runs it; findings only."""
+        return self.outputs(rule_id, data, profile)[0]
+
+    def outputs(
+        self, rule_id: str, data: BuildData, profile: Profile | None = None
+    ) -> tuple[list[Finding], list[DerivedFigure], list[Assumption]]:
+        build = _build(data)
+        self.manager.check_extensions(build, "(test build)")
+        return rule_outputs(
+            self.rule(rule_id), build, self.manager.complete_profile(profile or self.profile)
+        )
+
+    def review(
+        self, data: BuildData, profile: Profile | None = None, *, with_core: bool = True
+    ) -> Review:
+        """A whole review of the build by this pack (and the built-in pack, by default)."""
+        build = _build(data)
+        manager = self.manager
+        if with_core and BUILT_IN_PACK not in manager.packs:
+            manager = PackManager(strict=True)
+            manager.register(importlib.import_module("firstride_rules"), BUILT_IN_PACK, __version__)
+            manager.register(self._plugin, self.name, "test")
+        manager.check_extensions(build, "(test build)")
+        full = manager.complete_profile(profile or self.profile)
+        return review(build, full, manager.rules(), problems=manager.problems)
+
+    @property
+    def _plugin(self) -> object:
+        plugin = self.manager.plugin(self.name)
+        assert plugin is not None
+        return plugin
+
+
+def load_pack(
+    plugin: object, name: str, *, profile: Profile | str | Path | None = None
+) -> LoadedPack:
+    """Register ``plugin`` (a pack module or object) as pack ``name`` in a fresh, strict
+    manager: any problem (misspelled hook, faulty rule, bad default limits) raises, naming it.
+
+    ``profile`` is a Profile, a profile file's path, or None for the built-in profile; the
+    pack's own default limits sit under it, as in a real review.
+    """
+    manager = PackManager(strict=True)
+    manager.register(plugin, name, "test")
+    rules = {rule.id: rule for rule in manager.rules()}
+    base = profile if isinstance(profile, Profile) else load_profile(profile)
+    return LoadedPack(name, manager, rules, manager.complete_profile(base))
 
 
 @pytest.fixture

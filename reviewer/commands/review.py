@@ -9,6 +9,7 @@ from pathlib import Path
 
 from reviewer.changes import compare, load_previous
 from reviewer.commands import EXIT_FINDINGS, EXIT_GO
+from reviewer.commands.pack_options import add_pack_arguments, packs_from
 from reviewer.output import write_whole
 
 NAME = "review"
@@ -36,13 +37,13 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument(
         "--since", metavar="PREVIOUS.json", help="a previous review in JSON form: report changes"
     )
+    add_pack_arguments(parser)
 
 
 def run(args: argparse.Namespace) -> int:
     from reviewer.engine import review
     from reviewer.findings import Severity, Verdict
     from reviewer.loader import load_build
-    from reviewer.plugins import default_manager
     from reviewer.profile import load_profile
     from reviewer.waivers import load_waivers
 
@@ -50,7 +51,9 @@ def run(args: argparse.Namespace) -> int:
     profile = load_profile(args.profile)
     waivers = load_waivers(args.waivers) if args.waivers else None
     previous = load_previous(args.since) if args.since else None
-    manager = default_manager()
+    manager = packs_from(args)
+    profile = manager.complete_profile(profile)  # packs' default limits, under the profile's
+    manager.check_extensions(loaded.build, str(args.build))
     result = review(
         loaded.build,
         profile,
