@@ -248,6 +248,9 @@ class Regulator(_Model):
     thermal_resistance: ThermalResistance | None = Field(None, description="junction to air")
     max_junction_temperature: Temperature | None = None
     fed_from_pack: bool = True
+    input_voltage: Voltage | None = Field(
+        None, description="what feeds it when it is not fed from the traction pack"
+    )
 
 
 class PortGroup(_Model):

@@ -148,6 +148,18 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
 
 def _supply(build: Build, regulator: Regulator) -> _Supply | Finding:
+    if not regulator.fed_from_pack and regulator.input_voltage is not None:
+        volts = derived.in_unit(regulator.input_voltage, "V")
+        rated = regulator.input_max
+        rating = derived.VoltageRating(
+            "logic.regulator.input_max",
+            None if rated is None else derived.in_unit(rated, "V"),
+            volts,
+            volts,
+            "the separate supply it is fed from",
+            f"use a regulator rated for at least {u.format_number(volts)} V input",
+        )
+        return _Supply(volts, rating, volts)
     if not regulator.fed_from_pack:
         return Finding(
             Severity.UNASSESSED,

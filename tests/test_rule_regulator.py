@@ -258,3 +258,34 @@ def test_input_is_judged_as_voltage_ratings_judges_it() -> None:
                 theirs.remedy,
             )
             assert ours.rationale.startswith(theirs.rationale)
+
+
+def test_separate_supply_input_voltage_is_judged() -> None:
+    # 42 V to 5 V at 0.1 A is 3.7 W (domain brief, derived); fed from a 12 V supply instead,
+    # P = (12 - 5) x 0.1 = 0.7 W (P = (Vin - Vout) I, the linear regulator's loss)
+    from firstride_rules.regulator import RULE
+
+    from reviewer.testing import run_rule_on
+
+    data = {
+        "battery": {"chemistry": "li-ion", "cells_series": 10},
+        "logic": {
+            "board_current": "100 mA",
+            "regulator": {
+                "kind": "linear",
+                "fed_from_pack": False,
+                "input_voltage": "12 V",
+                "input_max": "10 V",
+                "output_voltage": "5 V",
+                "quiescent_current": "0.001 mA",
+                "thermal_resistance": "50 K/W",
+                "max_junction_temperature": "125 degC",
+            },
+        },
+        "usage": {"ambient_temperature": "25 degC"},
+    }
+    findings = {f.subject: f for f in run_rule_on(RULE, data)}
+    assert findings["regulator input"].severity.value == "stop"  # 10 V rating, fed 12 V
+    data["logic"]["regulator"]["input_max"] = "16 V"
+    findings = {f.subject: f for f in run_rule_on(RULE, data)}
+    assert findings["regulator input"].severity.value == "pass"
