@@ -8,11 +8,12 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import sys
 from collections.abc import Sequence
 
 from reviewer import __version__
-from reviewer.commands import EXIT_INPUT, VERBS
+from reviewer.commands import EXIT_GO, EXIT_INPUT, VERBS
 from reviewer.errors import InputError
 
 
@@ -54,3 +55,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_INPUT
     except KeyboardInterrupt:
         return 130
+    except BrokenPipeError:
+        # the reader went away (``firstride rules | head``): stop quietly, as shell tools do
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return EXIT_GO
