@@ -3,39 +3,54 @@
 Targets: the whole `firstride review` process within 2x a bare `python -c "import pint"`, and at
 least 200 in-process reviews (load, rules, render) per second on the largest sample build.
 
-    python benchmarks/review_speed.py [--runs 15] [--seconds 3]
+    python benchmarks/review_speed.py [--runs 15] [--seconds 3] [--phases]
+
+``--phases`` adds where the time goes: each step of a whole review process (minimum and median
+over the runs), and each step of an in-process review (minimum and median of many).
 """
 
 from __future__ import annotations
 
 import argparse
+import itertools
+import json
 import os
 import statistics
 import subprocess
 import sys
 import time
+from collections.abc import Callable
 from pathlib import Path
+from typing import Any
 
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "sample_builds"
+QUIET = {"stdout": subprocess.DEVNULL, "stderr": subprocess.DEVNULL}
 
 
 def largest_sample() -> Path:
     return max(SAMPLES.glob("*.toml"), key=lambda p: p.stat().st_size)
 
 
-def process_seconds(command: list[str], runs: int) -> float:
-    """Median wall time of a whole process. Bytecode caching is switched on (as after a normal
-    pip install) and one warm-up run fills it and the unit registry's cache first."""
-    env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
-    quiet = {"stdout": subprocess.DEVNULL, "stderr": subprocess.DEVNULL, "env": env}
-    subprocess.run(command, check=False, **quiet)
-    times = []
+def process_environment() -> dict[str, str]:
+    """Bytecode caching switched on, as after a normal pip install."""
+    return {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
+
+
+def process_seconds(commands: dict[str, list[str]], runs: int) -> dict[str, list[float]]:
+    """Wall times of whole processes. One warm-up run of each fills the bytecode, unit registry
+    and template caches first; then the commands take turns, so that on a noisy machine each
+    sees the same load as the other and their ratio is fair."""
+    env = process_environment()
+    for command in commands.values():
+        subprocess.run(command, check=False, env=env, **QUIET)
+    times: dict[str, list[float]] = {name: [] for name in commands}
     for _ in range(runs):
-        start = time.perf_counter()
-        subprocess.run(command, check=False, **quiet)
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
+        for name, command in commands.items():
+            start = time.perf_counter()
+            subprocess.run(command, check=False, env=env, **QUIET)
+            times[name].append(time.perf_counter() - start)
+    return times
 
 
 def in_process_rate(sample: Path, seconds: float) -> tuple[float, float]:
@@ -65,21 +80,162 @@ def in_process_rate(sample: Path, seconds: float) -> tuple[float, float]:
     return statistics.median(rates), 1000 / statistics.median(rates)
 
 
+# --- where the time goes -----------------------------------------------------------------------
+
+
+def _process_steps(build: str) -> None:
+    """One review the way ``python -m reviewer review BUILD`` does it, with a clock between
+    steps; prints the steps as JSON (milliseconds) and the wall clock at the end."""
+    marks = [("start", time.perf_counter())]
+
+    def mark(name: str) -> None:
+        marks.append((name, time.perf_counter()))
+
+    import gc
+
+    from reviewer import cli  # what ``python -m reviewer`` imports before its run()
+
+    gc.set_threshold(cli.PROGRAM_GC_THRESHOLD, *gc.get_threshold()[1:])
+    mark("reviewer package and CLI (pluggy)")
+    import pint  # noqa: F401
+
+    mark("import pint")
+    from pydantic import BaseModel  # noqa: F401
+
+    mark("import pydantic")
+    import reviewer.units
+
+    mark("unit registry")
+    import reviewer.build  # noqa: F401
+
+    mark("build models")
+    parser, _ = cli._parser()
+    args = parser.parse_args(["review", build])
+    from reviewer.engine import review
+    from reviewer.loader import load_build
+    from reviewer.profile import load_profile
+
+    mark("command line, engine modules")
+    loaded = load_build(args.build)
+    mark("read and validate the build")
+    profile = load_profile(args.profile)
+    mark("profile")
+    from reviewer.commands.pack_options import packs_from
+
+    manager = packs_from(args)
+    profile = manager.complete_profile(profile)
+    manager.check_extensions(loaded.build, str(args.build))
+    mark("rule packs (imports the rules)")
+    result = review(
+        loaded.build,
+        profile,
+        manager.rules(),
+        build_path=Path(args.build).as_posix(),
+        build_fingerprint=loaded.fingerprint,
+        problems=manager.problems,
+    )
+    mark("rules run")
+    from reviewer.report import environment, render_markdown
+
+    environment().get_template("review.md.j2")
+    mark("jinja2 and the template")
+    render_markdown(result)
+    mark("render")
+    steps = {b[0]: (b[1] - a[1]) * 1000 for a, b in itertools.pairwise(marks)}
+    gc.freeze()  # as cli.run() does before exit
+    print(json.dumps({"steps": steps, "end": time.time()}))
+
+
+def process_phases(build: Path, runs: int) -> list[tuple[str, list[float]]]:
+    env = process_environment()
+    python = sys.executable
+    child = [python, __file__, "--process-steps", str(build)]
+    subprocess.run(child, check=False, env=env, capture_output=True)
+    rows: dict[str, list[float]] = {"interpreter start (python -c pass)": []}
+    for _ in range(runs):
+        start = time.perf_counter()
+        subprocess.run([python, "-c", "pass"], check=False, env=env)
+        rows["interpreter start (python -c pass)"].append((time.perf_counter() - start) * 1000)
+        done = subprocess.run(child, check=True, env=env, capture_output=True, text=True)
+        ended = time.time()
+        report = json.loads(done.stdout)
+        for name, ms in report["steps"].items():
+            rows.setdefault(name, []).append(ms)
+        rows.setdefault("exit (after the last step)", []).append((ended - report["end"]) * 1000)
+    return list(rows.items())
+
+
+def in_process_phases(sample: Path, repeats: int = 300) -> list[tuple[str, list[float]]]:
+    import hashlib
+    import tomllib
+    from dataclasses import replace
+
+    from reviewer.build import Build
+    from reviewer.engine import review
+    from reviewer.plugins import default_manager
+    from reviewer.profile import load_profile
+    from reviewer.report import render_markdown
+
+    raw = sample.read_bytes()
+    profile = load_profile()
+    inline = replace(profile, rule_time_budget=0)
+    rules = default_manager().rules()
+    rows: dict[str, list[float]] = {}
+
+    def timed(name: str, function: Callable[..., Any], *arguments: Any) -> Any:
+        start = time.perf_counter()
+        value = function(*arguments)
+        rows.setdefault(name, []).append((time.perf_counter() - start) * 1000)
+        return value
+
+    for index in range(repeats + 1):
+        data = timed("TOML parse", tomllib.loads, raw.decode("utf-8"))
+        build = timed("validate (pydantic, quantities)", Build.model_validate, data)
+        timed("fingerprint (SHA-256)", lambda: hashlib.sha256(raw).hexdigest())
+        timed("rules, inline (budget 0)", review, build, inline, rules)
+        result = timed("rules, on the fenced worker", review, build, profile, rules)
+        timed("render Markdown", render_markdown, result)
+        if index == 0:
+            rows.clear()  # the first round fills caches
+    return list(rows.items())
+
+
+def print_table(title: str, rows: list[tuple[str, list[float]]], unit: str) -> None:
+    print(f"\n{title}")
+    print(f"  {'step':40s} {'min':>9s} {'median':>9s}  ({unit})")
+    for name, values in rows:
+        print(f"  {name:40s} {min(values):9.3f} {statistics.median(values):9.3f}")
+
+
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--runs", type=int, default=15)
     parser.add_argument("--seconds", type=float, default=3.0)
+    parser.add_argument("--phases", action="store_true", help="also show where the time goes")
+    parser.add_argument("--process-steps", metavar="BUILD", help=argparse.SUPPRESS)
     args = parser.parse_args()
+    if args.process_steps:
+        _process_steps(args.process_steps)
+        return 0
     sample = largest_sample()
     python = sys.executable
-    floor = process_seconds([python, "-c", "import pint"], args.runs)
-    whole = process_seconds([python, "-m", "reviewer", "review", str(sample)], args.runs)
+    times = process_seconds(
+        {
+            "floor": [python, "-c", "import pint"],
+            "whole": [python, "-m", "reviewer", "review", str(sample)],
+        },
+        args.runs,
+    )
+    floor, whole = (statistics.median(times[name]) for name in ("floor", "whole"))
     rate, ms = in_process_rate(sample, args.seconds)
     print(f"sample: {sample.relative_to(ROOT)} ({sample.stat().st_size} bytes)")
     print(f"floor  python -c 'import pint':  median {floor * 1000:7.1f} ms over {args.runs} runs")
     print(f"whole  firstride review:         median {whole * 1000:7.1f} ms over {args.runs} runs")
     print(f"ratio  whole / floor:            {whole / floor:7.2f}  (target <= 2.00)")
     print(f"in-process reviews per second:   {rate:7.1f}  ({ms:.2f} ms each; target >= 200)")
+    if args.phases:
+        print_table("whole process, step by step", process_phases(sample, args.runs), "ms")
+        print_table("one in-process review, step by step", in_process_phases(sample), "ms")
     return 0
 
 

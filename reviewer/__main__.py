@@ -1,3 +1,3 @@
-from reviewer.cli import main
+from reviewer.cli import run
 
-raise SystemExit(main())
+run()

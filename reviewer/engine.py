@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass, replace
-from typing import Any
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
 
 from reviewer import __version__
 from reviewer.build import Build
@@ -19,8 +19,10 @@ from reviewer.findings import (
 from reviewer.plugins import PackProblem, setup_findings
 from reviewer.profile import MissingLimit, Profile
 from reviewer.rule import Rule
-from reviewer.waivers import WaiverNote, WaiverSet, apply_waivers
 from reviewer.watchdog import Outcome, RuleTimeout, call_each_with_budget
+
+if TYPE_CHECKING:  # waivers are imported when a review has some: most reviews have none
+    from reviewer.waivers import WaiverNote, WaiverSet
 
 
 @dataclass(frozen=True)
@@ -84,7 +86,7 @@ def _fenced(rule: Rule, outcome: Outcome) -> list[object]:
     stamped: list[object] = []
     for item in outputs:
         if isinstance(item, Finding):
-            stamped.append(replace(item, rule_id=rule.id, title=rule.title))
+            stamped.append(item.stamped(rule.id, rule.title))
         elif isinstance(item, DerivedFigure | Assumption):
             stamped.append(item)
         else:
@@ -144,6 +146,8 @@ def review(
     findings.extend(setup_findings(profile, rules, problems))  # required packs that failed
     notes: list[WaiverNote] = []
     if waivers is not None:
+        from reviewer.waivers import apply_waivers
+
         findings, notes = apply_waivers(findings, waivers.waivers, known, _stop_waivable(profile))
     findings.sort(key=lambda f: f.sort_key)
     verdict = decide_verdict(findings, mandatory)

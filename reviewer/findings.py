@@ -4,13 +4,15 @@ from __future__ import annotations
 
 import enum
 from collections.abc import Iterable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any
 
 import pint
 
-from reviewer.units import in_unit
+from reviewer.units import in_unit, in_units_of, is_offset, quantity, quantity_like
+
+_make_instance = object.__new__
 
 
 class Severity(enum.Enum):
@@ -101,10 +103,10 @@ class Finding:
         None for temperatures on an offset scale (degC), where a ratio means nothing; the
         review shows :attr:`headroom` in kelvin for those instead.
         """
-        if not _both_quantities(self.measured, self.limit) or _is_offset(self.limit):
+        if not _both_quantities(self.measured, self.limit) or is_offset(self.limit):
             return None
         limit = float(self.limit.magnitude)  # a ratio: any common multiplicative unit will do
-        measured = in_unit(self.measured, self.limit.units)
+        measured = in_units_of(self.measured, self.limit)
         if limit == 0:
             return None
         if self.comparison is Comparison.AT_MOST:
@@ -117,27 +119,38 @@ class Finding:
         unit; a temperature difference comes out in kelvin."""
         if not _both_quantities(self.measured, self.limit):
             return None
-        if _is_offset(self.limit):
-            limit = self.limit.to("kelvin").magnitude
-            measured = self.measured.to("kelvin").magnitude
+        if is_offset(self.limit):
+            limit = in_unit(self.limit, "kelvin")
+            measured = in_unit(self.measured, "kelvin")
             sign = 1 if self.comparison is Comparison.AT_MOST else -1
-            return type(self.limit)(sign * (limit - measured), "kelvin")
-        difference = float(self.limit.magnitude) - in_unit(self.measured, self.limit.units)
+            return quantity(sign * (limit - measured), "kelvin")
+        difference = float(self.limit.magnitude) - in_units_of(self.measured, self.limit)
         if self.comparison is Comparison.AT_LEAST:
             difference = -difference
-        return type(self.limit)(difference, self.limit.units)
+        return quantity_like(difference, self.limit)
 
     @property
     def sort_key(self) -> tuple[int, str, str]:
         return (self.severity.rank, self.rule_id, self.subject)
 
+    def stamped(self, rule_id: str, title: str) -> Finding:
+        """A copy credited to the rule that gave it: ``replace(self, rule_id=..., title=...)``.
+
+        ``dataclasses.replace`` walks the fields and calls ``__init__`` each time; the engine
+        stamps every finding of every review, so a plain Finding (no ``__post_init__``, no
+        slots) is copied attribute by attribute instead, with the same result."""
+        if type(self) is not Finding:
+            return replace(self, rule_id=rule_id, title=title)
+        made = _make_instance(Finding)
+        attributes = made.__dict__
+        attributes.update(self.__dict__)
+        attributes["rule_id"] = rule_id
+        attributes["title"] = title
+        return made
+
 
 def _both_quantities(measured: object, limit: object) -> bool:
     return isinstance(measured, pint.Quantity) and isinstance(limit, pint.Quantity)
-
-
-def _is_offset(quantity: pint.Quantity) -> bool:
-    return not quantity._is_multiplicative
 
 
 class Verdict(enum.Enum):

@@ -15,6 +15,7 @@ from markupsafe import Markup
 
 from reviewer.engine import Review
 from reviewer.report import template_folder
+from reviewer.template_cache import bytecode_cache
 
 
 @cache
@@ -28,6 +29,7 @@ def _environment() -> jinja2.Environment:
     folder = template_folder()
     return jinja2.Environment(
         loader=jinja2.FunctionLoader(lambda name: folder.joinpath(name).read_text("utf-8")),
+        bytecode_cache=bytecode_cache(),
         autoescape=True,
         undefined=jinja2.StrictUndefined,
     )

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import difflib
 import hashlib
 import tomllib
 from dataclasses import dataclass
@@ -99,6 +98,8 @@ def _suggest(loc: tuple[Any, ...], root: type[BaseModel]) -> str:
         return ""
     names = set(model.model_fields)
     names |= {f.alias for f in model.model_fields.values() if f.alias}
+    import difflib  # only for a misspelt key: not imported on every review
+
     close = difflib.get_close_matches(str(loc[-1]), sorted(names), n=1, cutoff=0.6)
     return f"; did you mean {close[0]!r}?" if close else f"; known keys: {', '.join(sorted(names))}"
 

@@ -18,7 +18,6 @@ even imported.
 
 from __future__ import annotations
 
-import difflib
 import importlib.metadata
 import importlib.util
 import inspect
@@ -379,6 +378,8 @@ def _one_line(text: str) -> str:
 
 
 def _close(word: str, known: Iterable[str]) -> str:
+    import difflib  # only for a misspelt hook: not imported on every review
+
     close = difflib.get_close_matches(word, list(known), n=1, cutoff=0.6)
     return f"; did you mean {close[0]!r}?" if close else f"; the hooks are {', '.join(known)}"
 

@@ -175,7 +175,7 @@ def _guess_dimension(text: str) -> u.Dimension:
     match = u._QUANTITY_RE.match(text)
     unit = match["unit"].replace("^", "**") if match else "dimensionless"
     try:
-        units = u.ureg.parse_units(unit)
+        units = u.unit(unit)  # cached: profiles repeat a handful of units
     except Exception:  # noqa: BLE001 - reported as an unknown unit by parse_quantity
         return u.Dimension("dimensionless", "1", "a quantity")
     return u.Dimension(str(units), text, "a quantity", allow_zero=True)

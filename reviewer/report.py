@@ -7,6 +7,7 @@ start a heading or inject HTML. Templates mark their own table syntax with the `
 
 from __future__ import annotations
 
+import re
 from functools import cache
 from importlib import resources
 from importlib.resources.abc import Traversable
@@ -16,6 +17,7 @@ import jinja2
 
 from reviewer.engine import Review
 from reviewer.findings import Comparison, Finding, Severity
+from reviewer.template_cache import bytecode_cache
 from reviewer.units import format_number, format_quantity
 
 SEVERITY_ORDER = (
@@ -30,6 +32,9 @@ _MD_TABLE.update({ord("<"): "&lt;", ord(">"): "&gt;", ord("&"): "&amp;"})
 _MD_TABLE.update({ord(c): " " for c in "\r\n\t"})
 _MD_TABLE.update({c: None for c in range(32) if chr(c) not in "\r\n\t"})
 _MD_TABLE.update({0x7F: None, 0x2028: " ", 0x2029: " "})
+#: Any character the table changes: most text has none, and a search in C is far cheaper than
+#: ``str.translate`` looking every character up in the table.
+_MD_SPECIAL = re.compile("[" + "".join(re.escape(chr(c)) for c in sorted(_MD_TABLE)) + "]")
 
 
 class Raw(str):
@@ -38,11 +43,17 @@ class Raw(str):
 
 def markdown_text(value: Any) -> str:
     """Escape text for inline Markdown: one line, no table breaks, no HTML, no emphasis."""
-    if isinstance(value, Raw):
+    if type(value) is str:  # most values: plain text from a finding or the build
+        text = value
+    elif isinstance(value, Raw):
         return str(value)
-    if value is None:
+    elif value is None:
         return ""
-    return str(value).translate(_MD_TABLE)
+    else:
+        text = str(value)
+    if _MD_SPECIAL.search(text) is None:
+        return text
+    return text.translate(_MD_TABLE)
 
 
 def _quantity(value: Any) -> str:
@@ -73,6 +84,19 @@ def _limit(finding: Finding) -> str:
     return Raw(f"{word} {format_quantity(finding.limit)}")
 
 
+class Shown:
+    """A finding's figures as the review prints them, formatted once per render: the summary
+    table and then the details or the pass table show the same three. (A plain class: a
+    dataclass would cost a millisecond to define on every start.)"""
+
+    __slots__ = ("limit", "margin", "measured")
+
+    def __init__(self, finding: Finding) -> None:
+        self.measured = _quantity(finding.measured)
+        self.limit = _limit(finding)
+        self.margin = _margin(finding)
+
+
 def template_folder() -> Traversable:
     return resources.files("reviewer.templates")
 
@@ -86,6 +110,7 @@ def environment() -> jinja2.Environment:
 
     env = jinja2.Environment(
         loader=jinja2.FunctionLoader(load),
+        bytecode_cache=bytecode_cache(),
         finalize=markdown_text,
         autoescape=False,
         trim_blocks=True,
@@ -104,12 +129,14 @@ def render_markdown(review: Review) -> str:
     template = environment().get_template("review.md.j2")
     findings = list(review.findings)
     counts = [(s, review.count(s)) for s in SEVERITY_ORDER]
+    rows = [(f, Shown(f)) for f in findings]  # (finding, its figures as text)
     text = template.render(
         review=review,
         build=review.build,
         counts=counts,
-        acted=[f for f in findings if f.severity is not Severity.PASS],
-        passed=[f for f in findings if f.severity is Severity.PASS],
+        rows=rows,
+        acted=[row for row in rows if row[0].severity is not Severity.PASS],
+        passed=[row for row in rows if row[0].severity is Severity.PASS],
         unassessed=[f for f in findings if f.severity is Severity.UNASSESSED],
     )
     return "\n".join(line.rstrip() for line in text.splitlines()) + "\n"

@@ -8,7 +8,6 @@ print them. A rule is never switched off silently; lowering a severity is a waiv
 from __future__ import annotations
 
 import datetime
-import difflib
 from dataclasses import dataclass
 
 from reviewer.errors import InputError
@@ -93,5 +92,7 @@ def _date(value: object, where: str, at: str) -> datetime.date:
 
 
 def suggest(word: str, known: tuple[str, ...]) -> str:
+    import difflib  # only for a misspelt name: not imported on every review
+
     close = difflib.get_close_matches(word, known, n=1, cutoff=0.6)
     return f"; did you mean {close[0]!r}?" if close else f"; known keys: {', '.join(known)}"

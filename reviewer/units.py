@@ -19,7 +19,18 @@ import pint
 from pydantic import GetCoreSchemaHandler, GetJsonSchemaHandler
 from pydantic_core import PydanticCustomError, core_schema
 
-ureg = pint.UnitRegistry(cache_folder=":auto:", autoconvert_offset_to_baseunit=True)
+
+def _registry() -> pint.UnitRegistry:
+    """pint's registry, with its parsed definitions kept in the user's cache folder; where that
+    folder cannot be made (a read-only home, no home at all) they are parsed afresh instead of
+    the program failing."""
+    try:
+        return pint.UnitRegistry(cache_folder=":auto:", autoconvert_offset_to_baseunit=True)
+    except OSError:
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+ureg = _registry()
 ureg.formatter.default_format = "~P"
 Quantity = ureg.Quantity
 
@@ -43,12 +54,80 @@ def in_unit(amount: pint.Quantity, target: str | pint.Unit) -> float:
     units = unit(target) if isinstance(target, str) else target
     if amount._units is units._units:
         return float(amount.magnitude)
-    return float(amount.m_as(units))
+    return _magnitude_in(amount, units._units)
 
 
-def quantity(value: float, unit_text: str) -> pint.Quantity:
-    """Build a quantity from a float and a unit string through the unit cache."""
-    return Quantity(value, unit(unit_text))
+def in_units_of(amount: pint.Quantity, like: pint.Quantity) -> float:
+    """``amount``'s magnitude in the unit of the quantity ``like``: :func:`in_unit` without
+    making a pint Unit for ``like`` first (``like.units`` builds a new one on every access)."""
+    if amount._units is like._units:
+        return float(amount.magnitude)
+    return _magnitude_in(amount, like._units)
+
+
+def _magnitude_in(amount: pint.Quantity, target: Any) -> float:
+    """As ``float(amount.m_as(target))``, with pint's per-call overhead taken out where the
+    result is the same: equal units give the magnitude unchanged (pint's own shortcut), and a
+    multiplicative pair multiplies by the conversion factor, found once per pair. Offset
+    scales (degC) and anything unusual go through pint itself."""
+    source = amount._units
+    if source == target:
+        return float(amount.magnitude)
+    factor = _conversion_factor(source, target)
+    if factor is None:
+        return float(amount.m_as(ureg.Unit(target)))
+    return float(amount.magnitude * factor)
+
+
+@lru_cache(maxsize=1024)
+def _conversion_factor(source: Any, target: Any) -> float | None:
+    """pint's factor from ``source`` to ``target`` (two UnitsContainers): ``1.0 * factor``
+    converted by pint is the factor itself. None when either side is an offset or logarithmic
+    unit, which a factor cannot convert. Raises pint's DimensionalityError, never cached."""
+    if _is_offset_units(source) or _is_offset_units(target):
+        return None
+    return float(Quantity(1.0, source).to(ureg.Unit(target)).magnitude)
+
+
+def quantity(value: float, units: str | pint.Unit) -> pint.Quantity:
+    """A quantity from a number and a unit (text, through the unit cache, or a Unit).
+
+    pint's constructor checks its arguments for strings, sequences, arrays and other
+    registries, several microseconds each time; a plain ``float`` or ``int`` in a unit of this
+    registry needs none of it, so that case sets the same two attributes directly."""
+    parsed = unit(units) if isinstance(units, str) else units
+    if type(value) is float or type(value) is int:
+        return _new_quantity(value, parsed._units)
+    return Quantity(value, parsed)
+
+
+def quantity_like(value: float, like: pint.Quantity) -> pint.Quantity:
+    """A quantity of ``value`` (a float) in the unit of the quantity ``like``."""
+    return _new_quantity(float(value), like._units)
+
+
+def is_offset(amount: pint.Quantity) -> bool:
+    """True for a quantity on an offset (or other non-multiplicative) scale, such as degC,
+    where ratios and factors mean nothing."""
+    return _is_offset_units(amount._units)
+
+
+@lru_cache(maxsize=1024)
+def _is_offset_units(units: Any) -> bool:
+    # pint answers by looking up each unit's definition on every call; the answer is fixed.
+    return not Quantity(1.0, units)._is_multiplicative
+
+
+_make_instance = object.__new__
+
+
+def _new_quantity(magnitude: float, units: Any) -> pint.Quantity:
+    """What ``Quantity(magnitude, units)`` gives for a real number and a UnitsContainer of this
+    registry (pint's constructor sets exactly ``_magnitude`` and ``_units`` then)."""
+    made = _make_instance(Quantity)
+    made._magnitude = magnitude
+    made._units = units
+    return made
 
 
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d{1,3})?"
@@ -110,21 +189,20 @@ def parse_quantity(text: object, dimension: Dimension) -> pint.Quantity:
     magnitude = float(match["number"])
     if not math.isfinite(magnitude):
         raise QuantityError(f"{text!r} is not a finite number")
-    unit_text = match["unit"].replace("^", "**").replace("·", "*")
     try:
-        units = unit(unit_text)
-    except (pint.PintError, ValueError, TypeError, AttributeError, ArithmeticError) as exc:
-        raise QuantityError(f"unknown unit {match['unit']!r} in {text!r}") from exc
-    reference = dimension.reference
-    if units.dimensionality != reference.dimensionality:
+        plan = _unit_plan(match["unit"], dimension.unit)
+    except _UnknownUnit as exc:
+        raise QuantityError(f"unknown unit {match['unit']!r} in {text!r}") from exc.__cause__
+    if plan is None:
         raise QuantityError(
             f"{text!r} is not {dimension.what}; expected a unit like {dimension.unit!r}, "
             f"e.g. {dimension.example!r}"
         )
-    value = _converter(units, dimension.unit)(magnitude)
+    convert, target = plan
+    value = convert(magnitude)
     if not math.isfinite(value):
         raise QuantityError(f"{text!r} is out of range")
-    quantity = Quantity(value, unit(dimension.unit))
+    quantity = _new_quantity(value, target)
     low, high = dimension.minimum, dimension.maximum
     if value == 0 and not dimension.allow_zero:
         raise QuantityError(f"{text!r} must not be zero for {dimension.what}")
@@ -182,6 +260,27 @@ class QuantityField:
         }
 
 
+class _UnknownUnit(Exception):
+    """The unit text of a quantity is not a unit of the registry (the cause says why)."""
+
+
+@lru_cache(maxsize=1024)
+def _unit_plan(written: str, target_text: str) -> tuple[Callable[[float], float], Any] | None:
+    """How a magnitude written in the unit ``written`` becomes one in ``target_text``: the
+    float conversion and the target's UnitsContainer; None when the dimensions differ.
+
+    Found once per pair of unit texts, so validating a build costs a dictionary look-up per
+    quantity rather than pint's unit comparison and conversion. Raises :class:`_UnknownUnit`
+    (never cached) for a unit pint does not know."""
+    try:
+        units = unit(written.replace("^", "**").replace("·", "*"))
+    except (pint.PintError, ValueError, TypeError, AttributeError, ArithmeticError) as exc:
+        raise _UnknownUnit(written) from exc
+    if units.dimensionality != _reference(target_text).dimensionality:
+        return None
+    return _converter(units, target_text), unit(target_text)._units
+
+
 @lru_cache(maxsize=1024)
 def _converter(source: pint.Unit, target_text: str) -> Callable[[float], float]:
     """A float-to-float conversion between two units, found once: pint's own conversion
@@ -200,12 +299,19 @@ def unit_symbol(units: pint.Unit) -> str:
     return f"{units:~P}"
 
 
+@lru_cache(maxsize=1024)
+def _symbol_of(units: Any) -> str:
+    """The symbol of a quantity's UnitsContainer, keyed on the container itself: reading
+    ``quantity.units`` would build a new pint Unit (and hash it) on every call."""
+    return unit_symbol(ureg.Unit(units))
+
+
 def format_quantity(quantity: pint.Quantity | None, digits: int = 3) -> str:
     """Short, stable text for a quantity: three significant figures and the unit's symbol."""
     if quantity is None:
         return "n/a"
     magnitude = float(quantity.magnitude)
-    return f"{format_number(magnitude, digits)} {unit_symbol(quantity.units)}".strip()
+    return f"{format_number(magnitude, digits)} {_symbol_of(quantity._units)}".strip()
 
 
 def format_number(value: float, digits: int = 3) -> str:

@@ -25,7 +25,6 @@ in a debugger).
 
 from __future__ import annotations
 
-import ctypes
 import queue
 import threading
 import time
@@ -145,6 +144,8 @@ def _give_back(worker: _Worker) -> None:
 
 def _interrupt(worker: _Worker) -> None:
     """Best effort: raise RuleAbandoned inside the worker (CPython only)."""
+    import ctypes  # only for a rule over its budget: not imported on every review
+
     try:
         set_async_exc = ctypes.pythonapi.PyThreadState_SetAsyncExc
     except AttributeError:  # not CPython

@@ -205,7 +205,7 @@ def _contacts(
     emf = back_emf_constant(loop.kv) * omega
     yield DerivedFigure(
         f"braking current at top speed, {name}",
-        u.Quantity(current, _A),
+        u.quantity(current, _A),
         note=f"dynamic brake closed at {f(ms_to_kmh(speed))} km/h (rider '{rider.name}'), "
         f"{f(loop.resistance)} ohm loop at 20 °C",
         order=60,
@@ -231,7 +231,7 @@ def _contacts(
     ground = rpm_to_ground_speed(at_rating, drive.reduction, drive.wheel_radius)
     yield DerivedFigure(
         f"speed at which the braking current equals the contact rating, {name}",
-        u.Quantity(ms_to_kmh(ground), _KMH),
+        u.quantity(ms_to_kmh(ground), _KMH),
         note=f"n* = I_rating R_loop Kv = {at_rating:.0f} rpm",
         order=61,
     )
@@ -260,8 +260,8 @@ def _contacts(
         severity,
         subject,
         rationale,
-        measured=u.Quantity(current, _A),
-        limit=u.Quantity(rating, _A),
+        measured=u.quantity(current, _A),
+        limit=u.quantity(rating, _A),
         comparison=Comparison.AT_MOST,
         remedy=remedy,
         sources=tuple(sources),
@@ -290,7 +290,7 @@ def _deceleration(
     subject = f"dynamic braking, rider '{rider.name}'"
     yield DerivedFigure(
         f"dynamic-brake deceleration at top speed, rider '{rider.name}'",
-        u.Quantity(decel, _MS2),
+        u.quantity(decel, _MS2),
         note=f"from {f(ms_to_kmh(speed))} km/h, {f(mass)} kg with the vehicle",
         order=62,
     )
@@ -326,8 +326,8 @@ def _deceleration(
         severity,
         subject,
         rationale,
-        measured=u.Quantity(decel, _MS2),
-        limit=u.Quantity(needed, _MS2),
+        measured=u.quantity(decel, _MS2),
+        limit=u.quantity(needed, _MS2),
         comparison=Comparison.AT_LEAST,
         remedy=remedy,
         sources=(GENERATOR, minimum.source, fraction.source)

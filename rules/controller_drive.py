@@ -14,7 +14,7 @@ from reviewer import derived
 from reviewer.build import Build, MotorType
 from reviewer.findings import Source
 from reviewer.profile import Limit
-from reviewer.units import unit
+from reviewer.units import in_unit, unit
 
 _A = unit("A")
 _DEGC = unit("degC")
@@ -91,10 +91,7 @@ def number(limit: Limit) -> float:
 def magnitude(value: pint.Quantity, unit: pint.Unit) -> float:
     """Magnitude in ``unit``, skipping pint's conversion when the quantity is already in it
     (build fields arrive in fixed units, so this is the usual case)."""
-    # pint's public ``.units`` builds a new Unit on every call; its container compares cheaply.
-    if value._units == unit._units:
-        return float(value.magnitude)
-    return float(value.m_as(unit))
+    return in_unit(value, unit)
 
 
 def ambient(build: Build, default: Limit) -> float:

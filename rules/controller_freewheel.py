@@ -149,7 +149,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     if needs.average is not None:
         yield DerivedFigure(
             "freewheel diode average current, worst duty",
-            u.Quantity(needs.average, _A),
+            u.quantity(needs.average, _A),
             note="I (1 - D) over every duty, locked rotor",
             order=55,
         )
@@ -277,8 +277,8 @@ def _ratings(controller: Controller, needs: _Needs, voltage_factor: Limit) -> It
                 f"The diode is rated {f(rated)} {symbol} {what}; it needs at least "
                 f"{f(needed)} {symbol}, {basis}."
             ),
-            measured=u.Quantity(rated, unit),
-            limit=u.Quantity(needed, unit),
+            measured=u.quantity(rated, unit),
+            limit=u.quantity(needed, unit),
             comparison=Comparison.AT_LEAST,
             remedy=_diode_remedy(needs) if short else None,
             sources=sources,

@@ -135,8 +135,8 @@ def _range_finding(build: Build, controller: Controller) -> Finding:
                 f"The sensor saturates at {f(span)} A, below the {f(limit)} A current limit: it "
                 "can never report the current the limit is set to act on."
             ),
-            measured=u.Quantity(span, _A),
-            limit=u.Quantity(limit, _A),
+            measured=u.quantity(span, _A),
+            limit=u.quantity(limit, _A),
             comparison=Comparison.AT_LEAST,
             remedy=remedy,
             sources=(SATURATION,),
@@ -166,8 +166,8 @@ def _range_finding(build: Build, controller: Controller) -> Finding:
                 else ", within the range."
             )
         ),
-        measured=u.Quantity(span, _A),
-        limit=u.Quantity(stall.current, _A),
+        measured=u.quantity(span, _A),
+        limit=u.quantity(stall.current, _A),
         comparison=Comparison.AT_LEAST,
         remedy=remedy if short else None,
         sources=(SATURATION, STALL),
@@ -214,7 +214,7 @@ def _window_findings(controller: Controller, tolerance_limit: Limit) -> Iterator
     periods = periods_in_window(window, pwm)
     yield DerivedFigure(
         "current limit response time",
-        u.Quantity(window * 1000.0, _MS),
+        u.quantity(window * 1000.0, _MS),
         note="the averaging window: a stall current flows this long before the limit sees it",
         order=56,
     )
@@ -312,8 +312,8 @@ def _rating_findings(build: Build) -> Iterator[Finding]:
             severity=Severity.ADVISE if over else Severity.PASS,
             subject=subject,
             rationale=rationale,
-            measured=u.Quantity(limit, _A),
-            limit=u.Quantity(rated, _A),
+            measured=u.quantity(limit, _A),
+            limit=u.quantity(rated, _A),
             remedy=(
                 f"set the current limit at or below {f(rated)} A, or hold it above that only for "
                 "short bursts the motor.cooling check allows"

@@ -231,19 +231,19 @@ def _judge(switch: _Switch, load: _Duty, margin: Limit) -> Iterator[Output]:
     )
     yield DerivedFigure(
         "switch junction temperature",
-        u.Quantity(t_j, _DEGC),
+        u.quantity(t_j, _DEGC),
         note=f"at {f(load.current)} A and {f(load.ambient)} °C ambient",
         order=50,
     )
     yield DerivedFigure(
         "switch conduction loss",
-        u.Quantity(p_cond, _W),
+        u.quantity(p_cond, _W),
         note=f"I² Rds(on,hot) D with D = {f(load.duty)}",
         order=51,
     )
     yield DerivedFigure(
         "switch switching loss",
-        u.Quantity(p_sw, _W),
+        u.quantity(p_sw, _W),
         note=f"0.5 V I (tr + tf) f_sw at {f(load.voltage)} V",
         order=52,
     )
@@ -267,8 +267,8 @@ def _judge(switch: _Switch, load: _Duty, margin: Limit) -> Iterator[Output]:
         severity=severity,
         subject="controller switch",
         rationale=rationale,
-        measured=u.Quantity(t_j, _DEGC),
-        limit=u.Quantity(load.target, _DEGC),
+        measured=u.quantity(t_j, _DEGC),
+        limit=u.quantity(load.target, _DEGC),
         remedy=None if severity is Severity.PASS else _remedy(switch, load, power, p_sw),
         sources=(LOSSES, JUNCTION, margin.source),
     )

@@ -26,9 +26,10 @@ from reviewer.findings import (
 )
 from reviewer.profile import Limit, Profile
 from reviewer.rule import Output, Rule
-from reviewer.units import Quantity, format_number, ureg
+from reviewer.units import format_number, in_unit, quantity, unit
 
-MA = ureg.Unit("mA")  # a unit object, not a string: pint re-parses strings on every use
+# The cached unit object: build fields in mA share it, so in_unit reads them without converting.
+MA = unit("mA")
 DATASHEET = Source(
     "The logic part's datasheet absolute maximum ratings, as entered in the build",
     SourceStatus.USER,
@@ -109,7 +110,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
     drawn: dict[str, float] = {}
     for load in logic.loads:
-        drawn[load.name] = pin_side_current(load.current.m_as(MA), load.driver, gain)
+        drawn[load.name] = pin_side_current(in_unit(load.current, MA), load.driver, gain)
     yield from _driver_assumptions(logic)
 
     for load in logic.loads:
@@ -174,7 +175,7 @@ def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
 def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit: Limit) -> Finding:
     subject = f"load '{load.name}'"
     pins = _pins(load)
-    current = load.current.m_as(MA)
+    current = in_unit(load.current, MA)
     issues: list[tuple[Severity, str]] = []
     remedies: list[str] = []
     sources: list[Source] = []
@@ -217,7 +218,7 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
             subject=subject,
             rationale=f"{_mA(current)} load driven by {_driver_words(load)} on "
             f"{', '.join(pins)}{'; flyback diode fitted' if load.inductive else ''}.",
-            measured=Quantity(drawn, MA),
+            measured=quantity(drawn, MA),
             sources=(DATASHEET,),
         )
     severity = min((s for s, _ in issues), key=lambda s: s.rank)
@@ -226,7 +227,7 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
         subject=subject,
         rationale=f"{_mA(current)} load driven by {_driver_words(load)}. "
         + " ".join(text for _, text in issues),
-        measured=Quantity(drawn, MA),
+        measured=quantity(drawn, MA),
         remedy="; ".join(remedies) or None,
         sources=tuple(dict.fromkeys(sources)),
     )
@@ -275,7 +276,7 @@ def _pin_findings(
             missing=("logic.pin_current_max",),
         )
         return
-    maximum = logic.pin_current_max.m_as(MA)
+    maximum = in_unit(logic.pin_current_max, MA)
     allowed = allowed_current(maximum, fraction)
     sources = (DATASHEET, profile.limit("logic.pin_current_fraction").source)
     for pin, tally in tallies.items():
@@ -303,8 +304,8 @@ def _pin_findings(
             severity=severity,
             subject=f"pin {pin}",
             rationale=rationale,
-            measured=Quantity(tally.worst, MA),
-            limit=Quantity(allowed, MA),
+            measured=quantity(tally.worst, MA),
+            limit=quantity(allowed, MA),
             comparison=Comparison.AT_MOST,
             remedy=remedy,
             sources=sources,
@@ -322,7 +323,7 @@ def _group_findings(
             pins = _pins(load)
             inside = sum(1 for pin in pins if pin in members)
             current += worst_group_current(drawn[load.name], inside, len(pins), imbalance)
-        maximum = group.current_max.m_as(MA)
+        maximum = in_unit(group.current_max, MA)
         allowed = allowed_current(maximum, fraction)
         severity = _grade(current, maximum, allowed)
         remedy = None
@@ -339,8 +340,8 @@ def _group_findings(
             f"uneven sharing of loads split across groups; its datasheet maximum is "
             f"{_mA(maximum)} and the profile allows {format_number(fraction * 100)} % of it, "
             f"{_mA(allowed)}.",
-            measured=Quantity(current, MA),
-            limit=Quantity(allowed, MA),
+            measured=quantity(current, MA),
+            limit=quantity(allowed, MA),
             remedy=remedy,
             sources=sources,
         )
@@ -350,7 +351,7 @@ def _total_finding(
     logic: Logic, drawn: dict[str, float], fraction: float, profile: Profile
 ) -> Iterator[Output]:
     total = sum(drawn.values())
-    yield DerivedFigure("logic pins, total current", Quantity(total, MA), order=80)
+    yield DerivedFigure("logic pins, total current", quantity(total, MA), order=80)
     if logic.total_current_max is None:
         yield Finding(
             severity=Severity.UNASSESSED,
@@ -361,7 +362,7 @@ def _total_finding(
             missing=("logic.total_current_max",),
         )
         return
-    maximum = logic.total_current_max.m_as(MA)
+    maximum = in_unit(logic.total_current_max, MA)
     allowed = allowed_current(maximum, fraction)
     severity = _grade(total, maximum, allowed)
     remedy = None
@@ -376,8 +377,8 @@ def _total_finding(
         rationale=f"The loads draw {_mA(total)} from the part's pins in all; its datasheet "
         f"maximum is {_mA(maximum)} and the profile allows {format_number(fraction * 100)} % "
         f"of it, {_mA(allowed)}.",
-        measured=Quantity(total, MA),
-        limit=Quantity(allowed, MA),
+        measured=quantity(total, MA),
+        limit=quantity(allowed, MA),
         remedy=remedy,
         sources=(DATASHEET, profile.limit("logic.total_current_fraction").source),
     )

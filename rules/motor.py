@@ -46,10 +46,10 @@ _STATUS = {s.value: s for s in SourceStatus}
 _LIFE_QUOTE_SPAN_K = 50.0
 _TOLERANCE_K = 1e-6  # rated current at 40 degC lands on the limit; rounding must not flip it
 # Units parsed once: building quantities from unit text costs far more than the physics.
-_A = u.ureg.Unit("A")
-_DEGC = u.ureg.Unit("degC")
-_OHM = u.ureg.Unit("ohm")
-_W = u.ureg.Unit("W")
+_A = u.unit("A")
+_DEGC = u.unit("degC")
+_OHM = u.unit("ohm")
+_W = u.unit("W")
 
 
 @dataclass(frozen=True)
@@ -164,9 +164,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
 def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
     """Magnitude in ``unit``, skipping pint's slow conversion when already in it."""
-    if quantity.units == unit:
-        return float(quantity.magnitude)
-    return float(quantity.m_as(unit))
+    return u.in_unit(quantity, unit)
 
 
 def _missing(build: Build, index: int, motor: Motor, limit: float | None) -> tuple[str, ...]:
@@ -231,27 +229,27 @@ def _check_motor(motor: Motor, load: _Load, ambient: float, profile: Profile) ->
 
     yield DerivedFigure(
         f"copper loss at continuous current, {name}",
-        u.Quantity(loss, _W),
+        u.quantity(loss, _W),
         note="I² R at the winding's hot resistance" + (" (at least)" if runaway else ""),
         order=40,
     )
     if power is not None:
         yield DerivedFigure(
             f"input power at continuous current, {name}",
-            u.Quantity(power, _W),
+            u.quantity(power, _W),
             note="V I drawn at full duty; not all of it heats the winding",
             order=41,
         )
     if not runaway:
         yield DerivedFigure(
             f"winding temperature, {name}",
-            u.Quantity(theta, _DEGC),
+            u.quantity(theta, _DEGC),
             note=f"steady state at {u.format_number(ambient)} °C ambient",
             order=42,
         )
     yield DerivedFigure(
         f"highest continuous current, {name}",
-        u.Quantity(allowed, _A),
+        u.quantity(allowed, _A),
         note=f"keeps class {grade.letter} within its rise limit at this ambient and cooling",
         order=43,
     )
@@ -269,8 +267,8 @@ def _check_motor(motor: Motor, load: _Load, ambient: float, profile: Profile) ->
         severity=severity,
         subject=name,
         rationale=_rationale(load, current, loss, power, theta, ambient, grade, factor),
-        measured=None if runaway else u.Quantity(theta, _DEGC),
-        limit=u.Quantity(grade.rise_limit_temperature, _DEGC),
+        measured=None if runaway else u.quantity(theta, _DEGC),
+        limit=u.quantity(grade.rise_limit_temperature, _DEGC),
         remedy=remedy,
         sources=(IEC_60085, _rise_source(grade), COPPER_TEMPERATURE, THERMAL_MODEL),
     )

@@ -152,13 +152,13 @@ def _climb_findings(
     subject = f"climb of {f(climb.grade)} % with rider '{rider.name}'"
     yield DerivedFigure(
         f"current per motor to climb {f(climb.grade)} % at {f(walking)} km/h, rider '{rider.name}'",
-        u.Quantity(needed, _A),
+        u.quantity(needed, _A),
         note=f"{f(climb.mass)} kg with the vehicle",
         order=70,
     )
     yield DerivedFigure(
         f"full-throttle climbing speed on {f(climb.grade)} %, rider '{rider.name}'",
-        u.Quantity(ms_to_kmh(speed), _KMH),
+        u.quantity(ms_to_kmh(speed), _KMH),
         order=71,
     )
     drag = 0.5 * AIR_DENSITY_ISA * drive.drag_area * climb.speed**2
@@ -166,7 +166,7 @@ def _climb_findings(
     steepest = steepest_grade(force, drag, climb.mass, drive.rolling_resistance)
     yield DerivedFigure(
         f"steepest grade held at {f(walking)} km/h, rider '{rider.name}'",
-        u.Quantity(min(steepest, 100.0), _PERCENT),
+        u.quantity(min(steepest, 100.0), _PERCENT),
         note="100 % or more" if steepest >= 100.0 else "",
         order=72,
     )
@@ -193,8 +193,8 @@ def _climb_findings(
             subject,
             f"{situation} The drive gives at most {f(available)} A per motor there "
             f"({cause}), so {fate}; it holds {f(min(steepest, 100.0))} % at walking pace.",
-            measured=u.Quantity(needed, _A),
-            limit=u.Quantity(available, _A),
+            measured=u.quantity(needed, _A),
+            limit=u.quantity(available, _A),
             comparison=Comparison.AT_MOST,
             remedy=stall_remedy(build, climb, needed),
             sources=sources,
@@ -227,8 +227,8 @@ def _climb_findings(
         Severity.ADVISE if hot else Severity.PASS,
         subject,
         text,
-        measured=u.Quantity(needed, _A),
-        limit=u.Quantity(lowest, _A),
+        measured=u.quantity(needed, _A),
+        limit=u.quantity(lowest, _A),
         comparison=Comparison.AT_MOST,
         remedy=heat_remedy(build, climb, lowest) if hot else None,
         sources=(*sources, COPPER_LOSS) if hot else sources,

@@ -207,7 +207,7 @@ def _switching(
     current = switching_input_current(low, vout, load, efficiency)
     yield DerivedFigure(
         "logic regulator input current",
-        u.Quantity(current * 1000.0, _MA),
+        u.quantity(current * 1000.0, _MA),
         note=(
             f"switching, {u.format_number(efficiency * 100)} % efficient assumed, "
             f"{u.format_number(load * 1000)} mA at {u.format_number(vout)} V, "
@@ -217,7 +217,7 @@ def _switching(
     )
     yield DerivedFigure(
         "logic regulator dissipation",
-        u.Quantity(switching_loss(vout, load, efficiency), _W),
+        u.quantity(switching_loss(vout, load, efficiency), _W),
         note="switching: (1/efficiency - 1) x the output power",
         order=82,
     )
@@ -264,15 +264,15 @@ def _linear(
     quiescent, tj_max, ambient = yield from heat_defaults(build, regulator, profile)
     r_th = _in(regulator.thermal_resistance, _KW)
     subject = "regulator heat"
-    yield DerivedFigure("logic rail current", u.Quantity(load * 1000.0, _MA), order=80)
+    yield DerivedFigure("logic rail current", u.quantity(load * 1000.0, _MA), order=80)
     if vin <= vout:
         yield Finding(
             Severity.FIX,
             subject,
             f"The pack's {f(vin)} V is not above the {f(vout)} V output, so a linear "
             "regulator cannot hold its output.",
-            measured=u.Quantity(vin, _V),
-            limit=u.Quantity(vout, _V),
+            measured=u.quantity(vin, _V),
+            limit=u.quantity(vout, _V),
             comparison=Comparison.AT_LEAST,
             remedy=f"use a boost or buck-boost switching regulator for the {f(vout)} V rail",
             sources=(LINEAR_LOSS,),
@@ -282,14 +282,14 @@ def _linear(
     junction = junction_temperature(ambient, power, r_th)
     yield DerivedFigure(
         "logic regulator dissipation",
-        u.Quantity(power, _W),
+        u.quantity(power, _W),
         note=f"linear: ({f(vin)} V - {f(vout)} V) x {f(load * 1000)} mA + {f(vin)} V x "
         f"{f(quiescent * 1000)} mA",
         order=82,
     )
     yield DerivedFigure(
         "logic regulator junction temperature",
-        u.Quantity(junction, _DEGC),
+        u.quantity(junction, _DEGC),
         note=f"{f(ambient)} °C ambient + {f(power)} W x {f(r_th)} K/W",
         order=83,
     )
@@ -304,8 +304,8 @@ def _linear(
         Severity.FIX if hot else Severity.PASS,
         subject,
         rationale,
-        measured=u.Quantity(junction, _DEGC),
-        limit=u.Quantity(tj_max, _DEGC),
+        measured=u.quantity(junction, _DEGC),
+        limit=u.quantity(tj_max, _DEGC),
         comparison=Comparison.AT_MOST,
         remedy=heat_remedy(profile, vin, vout, load, quiescent, r_th, ambient, tj_max, power)
         if hot

@@ -42,14 +42,14 @@ ADULT_STOP_EXCESS = 0.20
 _TOLERANCE_MS = 1e-9
 _MAX_REDUCTION = 100.0  # the build model's bound on drivetrain.ratio
 # Units parsed once: building quantities from unit text costs far more than the physics.
-_KG = u.ureg.Unit("kg")
-_KJ = u.ureg.Unit("kJ")
-_KMH = u.ureg.Unit("km/h")
-_M = u.ureg.Unit("m")
-_MS2 = u.ureg.Unit("m/s**2")
-_NM_PER_A = u.ureg.Unit("N*m/A")
-_RPM = u.ureg.Unit("rpm")
-_RPM_PER_V = u.ureg.Unit("rpm/V")
+_KG = u.unit("kg")
+_KJ = u.unit("kJ")
+_KMH = u.unit("km/h")
+_M = u.unit("m")
+_MS2 = u.unit("m/s**2")
+_NM_PER_A = u.unit("N*m/A")
+_RPM = u.unit("rpm")
+_RPM_PER_V = u.unit("rpm/V")
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -129,25 +129,23 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
     """Magnitude in ``unit``; build fields already sit in their fixed unit, so skip pint's
     conversion (the slow part of a review) when they do."""
-    if quantity.units == unit:
-        return float(quantity.magnitude)
-    return float(quantity.m_as(unit))
+    return u.in_unit(quantity, unit)
 
 
 def _motor_figures(build: Build, drive: Drive) -> Iterator[DerivedFigure]:
     for motor, line in zip(build.motors, drive.lines(1.0), strict=True):
         name = f"motor '{motor.name}'"
         kv = line.kv_rpm_per_v
-        yield DerivedFigure(f"Kv, {name}", u.Quantity(kv, _RPM_PER_V), order=30)
+        yield DerivedFigure(f"Kv, {name}", u.quantity(kv, _RPM_PER_V), order=30)
         yield DerivedFigure(
             f"Kt, {name}",
-            u.Quantity(torque_constant(kv), _NM_PER_A),
+            u.quantity(torque_constant(kv), _NM_PER_A),
             note="60 / (2 pi Kv); equal to Ke in V s/rad",
             order=31,
         )
         yield DerivedFigure(
             f"no-load speed at full voltage, {name}",
-            u.Quantity(rad_s_to_rpm(line.no_load_speed), _RPM),
+            u.quantity(rad_s_to_rpm(line.no_load_speed), _RPM),
             note=f"pack full {u.format_number(drive.full_voltage)} V, before any max duty",
             order=32,
         )
@@ -167,16 +165,16 @@ def _check_rider(
     decel = _in(deceleration.quantity, _MS2)
     distance = stopping_distance(speed, decel)
     subject = f"rider '{rider.name}'"
-    yield DerivedFigure(f"top speed, {subject}", u.Quantity(ms_to_kmh(speed), _KMH), order=33)
+    yield DerivedFigure(f"top speed, {subject}", u.quantity(ms_to_kmh(speed), _KMH), order=33)
     yield DerivedFigure(
         f"kinetic energy at top speed, {subject}",
-        u.Quantity(energy / 1000.0, _KJ),
+        u.quantity(energy / 1000.0, _KJ),
         note="rider and vehicle",
         order=34,
     )
     yield DerivedFigure(
         f"stopping distance from top speed, {subject}",
-        u.Quantity(distance, _M),
+        u.quantity(distance, _M),
         note=f"at {f(decel)} m/s²",
         order=35,
     )
@@ -203,8 +201,8 @@ def _check_rider(
         severity=severity,
         subject=subject,
         rationale=rationale,
-        measured=u.Quantity(ms_to_kmh(speed), _KMH),
-        limit=u.Quantity(ms_to_kmh(limit_ms), _KMH),
+        measured=u.quantity(ms_to_kmh(speed), _KMH),
+        limit=u.quantity(ms_to_kmh(limit_ms), _KMH),
         remedy=None if severity is Severity.PASS else _remedy(build, drive, mass, limit_ms),
         sources=(
             limit.source,

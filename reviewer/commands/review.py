@@ -7,10 +7,8 @@ import sys
 from dataclasses import replace
 from pathlib import Path
 
-from reviewer.changes import compare, load_previous
 from reviewer.commands import EXIT_FINDINGS, EXIT_GO
 from reviewer.commands.pack_options import add_pack_arguments, packs_from
-from reviewer.output import write_whole
 
 NAME = "review"
 HELP = "review a build file and write the report"
@@ -45,12 +43,19 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.findings import Severity, Verdict
     from reviewer.loader import load_build
     from reviewer.profile import load_profile
-    from reviewer.waivers import load_waivers
 
     loaded = load_build(args.build)
     profile = load_profile(args.profile)
-    waivers = load_waivers(args.waivers) if args.waivers else None
-    previous = load_previous(args.since) if args.since else None
+    waivers = None
+    if args.waivers:
+        from reviewer.waivers import load_waivers
+
+        waivers = load_waivers(args.waivers)
+    previous = None
+    if args.since:  # imported only when asked: change reports are not on every review's path
+        from reviewer.changes import load_previous
+
+        previous = load_previous(args.since)
     manager = packs_from(args)
     profile = manager.complete_profile(profile)  # packs' default limits, under the profile's
     manager.check_extensions(loaded.build, str(args.build))
@@ -64,10 +69,14 @@ def run(args: argparse.Namespace) -> int:
         waivers=waivers,
     )
     if previous is not None:
+        from reviewer.changes import compare
+
         changes = compare(previous, Path(args.since).as_posix(), result.findings, loaded.data)
         result = replace(result, changes=changes)
     text = render(result, args.format, loaded.data)
     if args.output:
+        from reviewer.output import write_whole
+
         write_whole(Path(args.output), text)
     else:
         sys.stdout.write(text)

@@ -8,7 +8,6 @@ from pathlib import Path
 
 from reviewer.commands import EXIT_GO
 from reviewer.errors import InputError
-from reviewer.output import write_whole
 
 NAME = "sign"
 HELP = "sign a Markdown review (appends a signature block; each signature covers those before it)"
@@ -23,6 +22,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from reviewer.output import write_whole
     from reviewer.signing import sign_review
     from reviewer.signing_keys import load_private_key
 
