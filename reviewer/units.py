@@ -322,7 +322,10 @@ def format_number(value: float, digits: int = 3) -> str:
     text = f"{value:.{digits}g}"
     if "e" in text:
         mantissa, exponent = text.split("e")
-        return f"{mantissa}×10^{int(exponent)}"
+        power = int(exponent)
+        if 0 < power < 6:  # 2430 W reads better than 2.43×10^3 W; still three figures
+            return f"{round(float(text)):d}"
+        return f"{mantissa}×10^{power}"
     return text
 
 

@@ -69,3 +69,11 @@ def test_format_quantity_is_short_and_stable() -> None:
     assert u.format_quantity(u.quantity(23.876, "A")) == "23.9 A"
     assert u.format_quantity(u.quantity(0.0012345, "ohm")) == "0.00123 Ω"
     assert u.format_quantity(None) == "n/a"
+
+
+@pytest.mark.parametrize(
+    ("value", "text"),
+    [(2431.7, "2430"), (1000.0, "1000"), (150.0, "150"), (0.00005, "5×10^-5"), (1.5e7, "1.5×10^7")],
+)
+def test_format_number_keeps_three_figures_without_needless_powers(value: float, text: str) -> None:
+    assert u.format_number(value) == text
