@@ -98,6 +98,12 @@ class StallLoop:
     pack_resistance_known: bool
 
 
+#: Where the stall current V / R_loop comes from; every rule that quotes it cites this.
+STALL_SOURCE = Source.from_memory(
+    "Chapman, Electric Machinery Fundamentals: stall current V / R_loop"
+)
+
+
 # Many rules ask for the stall loop of the same build in turn: keep the last one. Holding the
 # build itself (not its id) makes the identity test sound; builds are frozen.
 _last_stall_loop: tuple[Build, float, StallLoop | None] | None = None

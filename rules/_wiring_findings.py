@@ -39,7 +39,7 @@ GENERAL_K = Source(
     "k = 226 sqrt(ln(1 + (theta_f - theta_i)/(234.5 + theta_i)))"
 )
 PTFE_K = Source.from_memory("PTFE: general copper k from 200 °C to 300 °C (below its melt)")
-STALL = Source.from_memory("Chapman, Electric Machinery Fundamentals: stall current V / R_loop")
+STALL = derived.STALL_SOURCE
 NEC_TABLE = Source("NEC (NFPA 70) Table 310.16: copper, 30 °C ambient, up to 3 conductors")
 FAA_TABLE = Source("FAA AC 43.13-1B Table 11-9: copper wire in bundles, 70 °C ambient")
 DATASHEET = Source("the wire's datasheet ampacity, read as for 30 °C ambient", SourceStatus.USER)

@@ -25,7 +25,7 @@ from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
 from reviewer.units import format_number, quantity
 
-STALL = Source.from_memory("Chapman, Electric Machinery Fundamentals: stall current V / R_loop")
+STALL = derived.STALL_SOURCE
 CAPABILITY = Source.common_practice(
     "Pack continuous current = the cell's continuous current (or C-rate x capacity) x the "
     "strings in parallel"
