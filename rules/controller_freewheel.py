@@ -16,7 +16,7 @@ from firstride_rules.controller_drive import (
     worst_stall,
 )
 
-from reviewer import derived
+from reviewer import ratings
 from reviewer import units as u
 from reviewer.build import Build, Controller, MotorType
 from reviewer.engineering.switching import worst_freewheel_average_current
@@ -54,7 +54,7 @@ SUBJECT = "freewheel diode"
 class _Needs:
     """What the diode must be rated for; None where an input is missing."""
 
-    reverse: derived.VoltageRating | None  # None without a battery
+    reverse: ratings.VoltageRating | None  # None without a battery
     voltage: float | None  # V reverse
     average: float | None  # A
     peak: float | None  # A
@@ -75,7 +75,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       A fitted diode's ratings are checked: ``diode_reverse_voltage`` against the pack's full
       voltage (``battery``) it blocks while the switch conducts, with the profile's
       ``voltage.diode_margin`` over it for turn-off ringing. That judgement is
-      ``reviewer.derived.diode_reverse_rating``, the one voltage.ratings makes of the same
+      ``reviewer.ratings.diode_reverse_rating``, the one voltage.ratings makes of the same
       diode, so the two agree on the figure, the severity and the words;
       ``diode_average_current`` at least the worst average current; ``diode_peak_current`` at
       least the current limit (``controller.current_limit``), or the cold stall current with
@@ -172,7 +172,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
 
 def _needs(build: Build, profile: Profile, voltage_factor: Limit) -> _Needs:
-    reverse = derived.diode_reverse_rating(build, profile)
+    reverse = ratings.diode_reverse_rating(build, profile)
     voltage = None if reverse is None else reverse.required
     limit = current_limit(build)
     stall = worst_stall(build, brushed_only=True)

@@ -23,7 +23,7 @@ from firstride_rules._protection_currents import (
     wire_capacity,
 )
 
-from reviewer import derived
+from reviewer import derived, ratings
 from reviewer.build import Build, Fuse
 from reviewer.engineering.fuses import (
     prospective_fault_current,
@@ -192,7 +192,7 @@ def _interruption(
     build: Build, index: int, fuse: Fuse, full: float, fault: _Fault
 ) -> Iterator[Output]:
     sources = (SHORT_CIRCUIT, FUSE_VOLTAGE)
-    rating = derived.fuse_voltage_rating(build, index)
+    rating = ratings.fuse_voltage_rating(build, index)
     assert rating is not None  # the pack is known
     # judged as voltage.ratings judges the same fuse: one function, one severity, one wording
     yield rating.finding(f"fuse '{fuse.name}' voltage rating", sources)
@@ -287,7 +287,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
          there is no current limit to protect them.
       3. Interruption of each such fuse: ``fuses[i].voltage_rating`` (DC) at least the full
          pack voltage (ISO 8820-3 blade fuses: 32 V or 58 V), judged by
-         ``reviewer.derived.fuse_voltage_rating`` as voltage.ratings judges the same fuse; and
+         ``reviewer.ratings.fuse_voltage_rating`` as voltage.ratings judges the same fuse; and
          ``fuses[i].breaking_capacity``, once the voltage rating is not below the pack's,
          at least the prospective short-circuit current at the controller input,
          V_full / (R_pack + R_battery_wires), with R_pack from

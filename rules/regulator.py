@@ -18,7 +18,7 @@ from firstride_rules._regulator_load import (
     output_voltage,
 )
 
-from reviewer import derived
+from reviewer import derived, ratings
 from reviewer import units as u
 from reviewer.build import Build, Logic, Regulator
 from reviewer.engineering.regulator import (
@@ -70,7 +70,7 @@ class _Supply:
     """What the regulator sees, in SI floats."""
 
     input_voltage: float  # V, the highest it is fed
-    rating: derived.VoltageRating  # its input maximum against that voltage
+    rating: ratings.VoltageRating  # its input maximum against that voltage
     low_input: float  # V, the pack's cut-off (where a switcher draws most)
 
 
@@ -84,7 +84,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       since the logic may be powered while charging.
 
       1. Input: that voltage against ``logic.regulator.input_max``, judged by
-         ``reviewer.derived.regulator_input_rating``, the judgement voltage.ratings makes of
+         ``reviewer.ratings.regulator_input_rating``, the judgement voltage.ratings makes of
          the same input, so the two agree on the figure, the severity and the words.
       2. Heat (linear only): the load is ``logic.board_current`` (microcontroller, sensors,
          radio) plus every ``logic.loads[].current`` (all taken on the regulated rail at once)
@@ -151,7 +151,7 @@ def _supply(build: Build, regulator: Regulator) -> _Supply | Finding:
     if not regulator.fed_from_pack and regulator.input_voltage is not None:
         volts = derived.in_unit(regulator.input_voltage, "V")
         rated = regulator.input_max
-        rating = derived.VoltageRating(
+        rating = ratings.VoltageRating(
             "logic.regulator.input_max",
             None if rated is None else derived.in_unit(rated, "V"),
             volts,
@@ -177,7 +177,7 @@ def _supply(build: Build, regulator: Regulator) -> _Supply | Finding:
             missing=("battery",),
             sources=(LINEAR_LOSS,),
         )
-    rating = derived.regulator_input_rating(build)
+    rating = ratings.regulator_input_rating(build)
     assert rating is not None  # fed from the pack, which is described
     return _Supply(rating.sees, rating, derived.pack_voltages(build.battery).cutoff)
 

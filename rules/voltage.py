@@ -15,9 +15,8 @@ from dataclasses import dataclass
 
 import pint
 
-from reviewer import derived
+from reviewer import derived, ratings
 from reviewer.build import Battery, Build, Controller
-from reviewer.derived import VoltageRating, whole_volts_up
 from reviewer.findings import (
     Assumption,
     Comparison,
@@ -28,6 +27,7 @@ from reviewer.findings import (
     SourceStatus,
 )
 from reviewer.profile import Profile
+from reviewer.ratings import VoltageRating, whole_volts_up
 from reviewer.rule import Output, Rule
 from reviewer.units import format_number, quantity
 
@@ -62,7 +62,7 @@ def _n(value: float) -> str:
 @dataclass(frozen=True)
 class _Part:
     """One part the pack reaches: its rating, judged as every rule that checks it judges it
-    (``reviewer.derived.VoltageRating``), and the sources this rule cites for it."""
+    (``reviewer.ratings.VoltageRating``), and the sources this rule cites for it."""
 
     subject: str
     rating: VoltageRating
@@ -118,7 +118,7 @@ def _switch_parts(
     )
     yield _Part("motor switch", switch, (CELL_LIMITS, SWITCH_SPIKE, source))
     if diode or (diode is None and controller.diode_reverse_voltage is not None):
-        reverse = derived.diode_reverse_rating(build, profile)
+        reverse = ratings.diode_reverse_rating(build, profile)
         assert reverse is not None and reverse.margin_source is not None  # the pack is known
         yield _Part("freewheel diode", reverse, (CELL_LIMITS, SWITCH_SPIKE, reverse.margin_source))
 
@@ -127,11 +127,11 @@ def _parts(build: Build, full: float, profile: Profile) -> Iterator[_Part | Assu
     """Every part in the build that the pack voltage reaches, with its requirement."""
     if build.controller is not None:
         yield from _switch_parts(build, build.controller, full, profile)
-    regulator = derived.regulator_input_rating(build)
+    regulator = ratings.regulator_input_rating(build)
     if regulator is not None:
         yield _Part("logic regulator input", regulator, (CELL_LIMITS,))
     for index, fuse in enumerate(build.fuses):
-        rating = derived.fuse_voltage_rating(build, index)
+        rating = ratings.fuse_voltage_rating(build, index)
         assert rating is not None  # the pack is known
         yield _Part(f"fuse '{fuse.name}'", rating, (CELL_LIMITS, FUSE_VOLTAGE))
     brake = build.brake
