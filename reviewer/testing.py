@@ -17,6 +17,7 @@ For one rule object without a pack, :func:`run_rule_on` runs it as the engine wo
 
 from __future__ import annotations
 
+import copy
 import importlib
 from collections.abc import Iterable, Iterator, Mapping
 from dataclasses import dataclass
@@ -42,6 +43,22 @@ def make_build(data: Mapping[str, Any]) -> Build:
     tree = dict(data)
     tree.setdefault("vehicle", MINIMAL_VEHICLE)
     return Build.model_validate(tree)
+
+
+def variant(base: Mapping[str, Any], **changes: Any) -> dict[str, Any]:
+    """A deep copy of a build dict with fields changed by path: ``battery__cells_series=7``
+    sets ``battery.cells_series``; a value of None removes the field."""
+    data = copy.deepcopy(dict(base))
+    for path, value in changes.items():
+        node = data
+        *parents, leaf = path.split("__")
+        for key in parents:
+            node = node.setdefault(key, {})
+        if value is None:
+            node.pop(leaf, None)
+        else:
+            node[leaf] = value
+    return data
 
 
 def _build(data: BuildData) -> Build:

@@ -3,7 +3,6 @@ brake it needs beside it."""
 
 from __future__ import annotations
 
-import copy
 import math
 import re
 from typing import Any
@@ -12,7 +11,7 @@ import pytest
 from firstride_rules.brake import RULE
 
 from reviewer.findings import Finding, Severity
-from reviewer.testing import rule_outputs, run_rule_on
+from reviewer.testing import rule_outputs, run_rule_on, variant
 
 G, RHO = 9.80665, 1.225  # CGPM standard gravity; ISA sea-level air density
 KT = 60 / (2 * math.pi * 100)  # N m/A = Ke in V s/rad for 100 rpm/V (SI definition)
@@ -54,17 +53,7 @@ KART: dict[str, Any] = {
 
 
 def kart(**changes: Any) -> dict[str, Any]:
-    data = copy.deepcopy(KART)
-    for path, value in changes.items():
-        node = data
-        *parents, leaf = path.split("__")
-        for key in parents:
-            node = node.setdefault(key, {})
-        if value is None:
-            node.pop(leaf, None)
-        else:
-            node[leaf] = value
-    return data
+    return variant(KART, **changes)
 
 
 def by_subject(data: dict[str, Any]) -> dict[str, Finding]:

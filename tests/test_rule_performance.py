@@ -3,7 +3,6 @@ and the motor's rated current."""
 
 from __future__ import annotations
 
-import copy
 import math
 import re
 from dataclasses import replace
@@ -14,7 +13,7 @@ from firstride_rules.performance import RULE
 
 from reviewer.findings import Finding, Severity, Source
 from reviewer.profile import Limit, load_profile
-from reviewer.testing import rule_outputs, run_rule_on
+from reviewer.testing import rule_outputs, run_rule_on, variant
 from reviewer.units import quantity
 
 G, RHO = 9.80665, 1.225  # CGPM standard gravity; ISA sea-level air density
@@ -51,17 +50,7 @@ KART: dict[str, Any] = {
 
 
 def kart(**changes: Any) -> dict[str, Any]:
-    data = copy.deepcopy(KART)
-    for path, value in changes.items():
-        node = data
-        *parents, leaf = path.split("__")
-        for key in parents:
-            node = node.setdefault(key, {})
-        if value is None:
-            node.pop(leaf, None)
-        else:
-            node[leaf] = value
-    return data
+    return variant(KART, **changes)
 
 
 def climb(data: dict[str, Any], profile: Any = None) -> Finding:

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import copy
 import re
 from typing import Any
 
@@ -10,7 +9,7 @@ import pytest
 from firstride_rules.regulator import RULE
 
 from reviewer.findings import Comparison, Finding, Severity
-from reviewer.testing import rule_outputs, run_rule_on
+from reviewer.testing import rule_outputs, run_rule_on, variant
 
 # An invented scooter: 10S lithium pack (42 V full, 30 V cut-off), a logic board with a sensor
 # and a radio drawing 100 mA, fed by a linear regulator in a small package.
@@ -33,17 +32,7 @@ BUILD: dict[str, Any] = {
 
 
 def build(**changes: Any) -> dict[str, Any]:
-    data = copy.deepcopy(BUILD)
-    for path, value in changes.items():
-        node = data
-        *parents, leaf = path.split("__")
-        for key in parents:
-            node = node.setdefault(key, {})
-        if value is None:
-            node.pop(leaf, None)
-        else:
-            node[leaf] = value
-    return data
+    return variant(BUILD, **changes)
 
 
 def by_subject(data: dict[str, Any]) -> dict[str, Finding]:

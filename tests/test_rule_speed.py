@@ -11,7 +11,7 @@ import pytest
 from firstride_rules.speed import RULE
 
 from reviewer.findings import Finding, Severity
-from reviewer.testing import rule_outputs, run_rule_on
+from reviewer.testing import rule_outputs, run_rule_on, variant
 
 G, RHO = 9.80665, 1.225  # CGPM standard gravity; ISA sea-level air density
 
@@ -42,17 +42,7 @@ KART: dict[str, Any] = {
 
 
 def kart(**changes: Any) -> dict[str, Any]:
-    data = copy.deepcopy(KART)
-    for path, value in changes.items():
-        node = data
-        *parents, leaf = path.split("__")
-        for key in parents:
-            node = node.setdefault(key, {})
-        if value is None:
-            node.pop(leaf, None)
-        else:
-            node[leaf] = value
-    return data
+    return variant(KART, **changes)
 
 
 def rider(name: str, mass: str, rider_class: str) -> dict[str, str]:
