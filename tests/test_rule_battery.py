@@ -11,9 +11,8 @@ from __future__ import annotations
 import re
 
 import pytest
-from firstride_rules.battery import RULES
-from firstride_rules.battery_discharge import RULE as DISCHARGE_RULE
-from firstride_rules.battery_protection import RULE as PROTECTION_RULE
+from firstride_rules.battery.discharge import RULE as DISCHARGE_RULE
+from firstride_rules.battery.protection import RULE as PROTECTION_RULE
 
 from reviewer.engineering.cells import (
     CELL_VOLTAGES,
@@ -135,13 +134,13 @@ def test_string_capability_takes_the_lower_rating():
 # --- battery.discharge ------------------------------------------------------------------------
 
 
-def test_each_rule_has_its_own_module_and_the_battery_module_gathers_them():
-    import firstride_rules.battery as gathering
+def test_each_rule_has_its_own_module():
+    import firstride_rules.battery as area
 
-    assert not hasattr(gathering, "RULE")
-    assert RULES == (DISCHARGE_RULE, PROTECTION_RULE)
-    assert [r.id for r in RULES] == ["battery.discharge", "battery.protection"]
-    for rule in RULES:
+    assert not hasattr(area, "RULE")
+    rules = (DISCHARGE_RULE, PROTECTION_RULE)
+    assert [r.id for r in rules] == ["battery.discharge", "battery.protection"]
+    for rule in rules:
         assert "Severities" in rule.doc and rule.sources
 
 

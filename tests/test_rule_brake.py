@@ -8,7 +8,7 @@ import re
 from typing import Any
 
 import pytest
-from firstride_rules.brake import RULE
+from firstride_rules.brake.dynamic import RULE
 
 from reviewer.findings import Finding, Severity
 from reviewer.testing import rule_outputs, run_rule_on, variant

@@ -7,7 +7,9 @@ import re
 from typing import Any
 
 import pytest
-from firstride_rules.controller import CURRENT_SENSE, FREEWHEEL, RULES, SWITCH_THERMAL
+from firstride_rules.controller.current_sense import RULE as CURRENT_SENSE
+from firstride_rules.controller.freewheel import RULE as FREEWHEEL
+from firstride_rules.controller.switch_thermal import RULE as SWITCH_THERMAL
 
 from reviewer.findings import Comparison, Finding, Severity
 from reviewer.testing import rule_outputs, run_rule_on
@@ -79,7 +81,7 @@ def number_in(text: str | None, pattern: str) -> float:
 
 
 def test_rule_ids() -> None:
-    assert [r.id for r in RULES] == [
+    assert [r.id for r in (SWITCH_THERMAL, FREEWHEEL, CURRENT_SENSE)] == [
         "controller.switch-thermal",
         "controller.freewheel",
         "controller.current-sense",
@@ -290,7 +292,7 @@ def test_reverse_rating_below_the_full_pack_is_stop() -> None:
 @pytest.mark.parametrize("rating", ["25 V", "29.4 V", "35 V", "36.75 V", "60 V", None])
 def test_reverse_rating_is_judged_as_voltage_ratings_judges_it(rating: str | None) -> None:
     # one diode, one judgement: the same severity, limit, words and remedy in both rules
-    from firstride_rules.voltage import RULE as VOLTAGE
+    from firstride_rules.voltage.ratings import RULE as VOLTAGE
 
     data = build(diode_reverse_voltage=rating)
     ours = by_subject(run_rule_on(FREEWHEEL, data), "freewheel diode reverse voltage")

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from firstride_rules.enclosure import RULE
+from firstride_rules.enclosure.ingress import RULE
 
 from reviewer.findings import Severity
 from reviewer.testing import rule_outputs, run_rule_on

@@ -7,7 +7,7 @@ from dataclasses import replace
 from typing import Any
 
 import pytest
-from firstride_rules.logic import RULE
+from firstride_rules.logic.pin_current import RULE
 
 from reviewer.engineering.pins import (
     allowed_current,

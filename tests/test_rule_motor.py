@@ -7,7 +7,7 @@ import re
 from typing import Any
 
 import pytest
-from firstride_rules.motor import RULE
+from firstride_rules.motor.cooling import RULE
 
 from reviewer import units as u
 from reviewer.findings import Finding, Severity

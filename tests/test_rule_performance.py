@@ -9,7 +9,7 @@ from dataclasses import replace
 from typing import Any
 
 import pytest
-from firstride_rules.performance import RULE
+from firstride_rules.performance.hill import RULE
 
 from reviewer.findings import Finding, Severity, Source
 from reviewer.profile import Limit, load_profile

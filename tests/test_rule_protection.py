@@ -9,7 +9,7 @@ resistances come from the CRC handbook table (ohm/km at 20 degC); ampacities fro
 from __future__ import annotations
 
 import pytest
-from firstride_rules.protection import RULE
+from firstride_rules.protection.fuse import RULE
 
 from reviewer.findings import Comparison, Severity
 from reviewer.testing import rule_outputs, run_rule_on
@@ -212,7 +212,7 @@ def test_the_table_bound_limits_a_thin_wire_in_hot_air():
 
 
 def test_the_bound_is_worded_as_the_wiring_rule_words_it():
-    from firstride_rules.wiring import RULE as WIRING
+    from firstride_rules.wiring.stall_current import RULE as WIRING
 
     # a 10 A limit over the 6.1 A bound: the wiring rule fails the wire on the same bound
     data = build(fuse("7 A"), wires=thin(), limit="10 A")
@@ -287,7 +287,7 @@ def test_blade_fuse_voltage_on_a_ten_cell_pack(voltage, severity):
 @pytest.mark.parametrize("voltage", ["32 V", "42 V", "58 V", None])
 def test_fuse_voltage_is_judged_as_voltage_ratings_judges_it(voltage):
     # one fuse, one judgement: the same severity, limit, words and remedy in both rules
-    from firstride_rules.voltage import RULE as VOLTAGE
+    from firstride_rules.voltage.ratings import RULE as VOLTAGE
 
     data = build(fuse(voltage=voltage))
     ours = by_subject(data)["fuse 'main' voltage rating"]

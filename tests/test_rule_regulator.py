@@ -6,7 +6,7 @@ import re
 from typing import Any
 
 import pytest
-from firstride_rules.regulator import RULE
+from firstride_rules.logic.regulator import RULE
 
 from reviewer.findings import Comparison, Finding, Severity
 from reviewer.testing import rule_outputs, run_rule_on, variant
@@ -229,7 +229,7 @@ def test_missing_input_rating_and_pack_are_unassessed() -> None:
 
 def test_input_is_judged_as_voltage_ratings_judges_it() -> None:
     # one judgement for one part: the same severity, limit and words in both rules
-    from firstride_rules.voltage import RULE as VOLTAGE
+    from firstride_rules.voltage.ratings import RULE as VOLTAGE
 
     for input_max in ("35 V", "42 V", "60 V", None):  # 42 V full: 10 x 4.2 V (from memory)
         for charger in (None, "43 V"):
@@ -252,7 +252,7 @@ def test_input_is_judged_as_voltage_ratings_judges_it() -> None:
 def test_separate_supply_input_voltage_is_judged() -> None:
     # 42 V to 5 V at 0.1 A is 3.7 W (domain brief, derived); fed from a 12 V supply instead,
     # P = (12 - 5) x 0.1 = 0.7 W (P = (Vin - Vout) I, the linear regulator's loss)
-    from firstride_rules.regulator import RULE
+    from firstride_rules.logic.regulator import RULE
 
     from reviewer.testing import run_rule_on
 

@@ -11,7 +11,7 @@ its margin a fix.
 from __future__ import annotations
 
 import pytest
-from firstride_rules.voltage import RULE
+from firstride_rules.voltage.ratings import RULE
 
 from reviewer.findings import Severity
 from reviewer.testing import rule_outputs, run_rule_on

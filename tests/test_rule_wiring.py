@@ -11,7 +11,7 @@ import math
 import re
 
 import pytest
-from firstride_rules.wiring import REMEDY_GAUGES, RULE
+from firstride_rules.wiring.stall_current import REMEDY_GAUGES, RULE
 
 from reviewer.findings import Finding, Severity
 from reviewer.profile import load_profile

@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Generator, Iterator
 from dataclasses import dataclass
 
-from firstride_rules._regulator_load import (
+from firstride_rules.logic._regulator_load import (
     heat_defaults,
     heat_remedy,
     load_current,

@@ -9,8 +9,8 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from firstride_rules._wiring_calc import REMEDY_GAUGES
-from firstride_rules._wiring_findings import (
+from firstride_rules.wiring._calc import REMEDY_GAUGES
+from firstride_rules.wiring._findings import (
     ADIABATIC,
     AMBIENT,
     BUNDLING,
@@ -25,7 +25,7 @@ from firstride_rules._wiring_findings import (
     stall_figures,
     wire_finding,
 )
-from firstride_rules._wiring_model import StallContext, fuse_from, power_wires
+from firstride_rules.wiring._model import StallContext, fuse_from, power_wires
 
 from reviewer import derived
 from reviewer.build import Build, Circuit

@@ -9,7 +9,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from firstride_rules._wiring_model import Conductor, StallContext
+from firstride_rules.wiring._model import Conductor, StallContext
 
 from reviewer.engineering.conductors import (
     ADIABATIC_LIMIT_S,

@@ -11,13 +11,13 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from firstride_rules._brake_backup import (
+from firstride_rules.brake._backup import (
     FADES,
     TO_STANDSTILL,
     no_brake_finding,
     standstill_finding,
 )
-from firstride_rules._brake_loops import (
+from firstride_rules.brake._loops import (
     BrakingLoop,
     braking_loops,
     contact_remedy,

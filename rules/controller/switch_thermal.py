@@ -7,7 +7,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
-from firstride_rules.controller_drive import (
+from firstride_rules.controller._drive import (
     STALL,
     controller_missing,
     current_limit,
@@ -18,7 +18,7 @@ from firstride_rules.controller_drive import (
     stall_missing,
     worst_stall,
 )
-from firstride_rules.controller_drive import (
+from firstride_rules.controller._drive import (
     ambient as ambient_temperature,
 )
 

@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from firstride_rules.controller_drive import (
+from firstride_rules.controller._drive import (
     STALL,
     ceil_whole,
     current_limit,

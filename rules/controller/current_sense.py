@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from firstride_rules.controller_drive import (
+from firstride_rules.controller._drive import (
     STALL,
     ceil_whole,
     current_limit,

@@ -8,14 +8,14 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterator
 
-from firstride_rules._wiring_calc import (
+from firstride_rules.wiring._calc import (
     WireVerdict,
     judge,
     lightest_drop_gauge,
     path_drop,
     wire_remedy,
 )
-from firstride_rules._wiring_model import Conductor, StallContext
+from firstride_rules.wiring._model import Conductor, StallContext
 
 from reviewer import derived
 from reviewer.build import Build

@@ -13,7 +13,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
-from firstride_rules._protection_currents import (
+from firstride_rules.protection._currents import (
     THIN_WIRE,
     THINNER_CEILING,
     Capacity,

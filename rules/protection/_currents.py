@@ -14,7 +14,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from functools import partial
 
-from firstride_rules._wiring_findings import THIN_WIRE
+from firstride_rules.wiring._findings import THIN_WIRE
 
 from reviewer import derived
 from reviewer.build import Build, Circuit, Fuse, Wire

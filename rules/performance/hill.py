@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Generator, Iterator
 from dataclasses import replace
 
-from firstride_rules._performance_climb import Climb, heat_remedy, stall_remedy, steepest_grade
+from firstride_rules.performance._climb import Climb, heat_remedy, stall_remedy, steepest_grade
 
 from reviewer import derived
 from reviewer import units as u

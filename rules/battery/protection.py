@@ -6,8 +6,8 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from firstride_rules._battery_cells import CELL_LIMITS
-from firstride_rules._battery_cells import EPSILON as _EPSILON
+from firstride_rules.battery._cells import CELL_LIMITS
+from firstride_rules.battery._cells import EPSILON as _EPSILON
 
 from reviewer import derived
 from reviewer.build import Battery, Build

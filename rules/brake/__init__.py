@@ -1,0 +1,1 @@
+"""Brake rules: how the vehicle slows and stops."""

@@ -1,0 +1,1 @@
+"""Controller rules: its power switch, freewheel path and current measurement."""

@@ -1,0 +1,1 @@
+"""Enclosure rules: ingress protection of the parts and the battery housing."""

@@ -1,0 +1,1 @@
+"""Logic rules: the microcontroller's pins and the regulator that feeds it."""

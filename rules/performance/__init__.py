@@ -1,0 +1,1 @@
+"""Performance rules: what the drive can do on the build's hills."""

@@ -1,0 +1,1 @@
+"""Voltage rules: every part's voltage rating against what the pack can put across it."""
