@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
 from reviewer import __version__
@@ -22,6 +22,7 @@ from reviewer.rule import Rule
 from reviewer.watchdog import Outcome, RuleTimeout, call_each_with_budget
 
 if TYPE_CHECKING:  # waivers are imported when a review has some: most reviews have none
+    from reviewer.changes import Changes
     from reviewer.waivers import WaiverNote, WaiverSet
 
 
@@ -40,7 +41,8 @@ class Review:
     tool_version: str = __version__
     waivers: WaiverSet | None = None
     waiver_notes: tuple[WaiverNote, ...] = ()
-    changes: Any = None  # a reviewer.changes.Changes when reviewed --since a previous review
+    changes: Changes | None = None  # when reviewed --since a previous review
+    build_data: dict[str, Any] = field(default_factory=dict)  # the build file's raw tree
 
     def count(self, severity: Severity) -> int:
         """Findings of that severity that still count (waived ones are counted apart)."""
@@ -169,5 +171,4 @@ def review(
 
 def _stop_waivable(profile: Profile) -> bool:
     """Only a profile that says so in ``[waivers] allow_stop = true`` lets a stop be waived."""
-    section = profile.extra.get("waivers", {})
-    return isinstance(section, dict) and section.get("allow_stop") is True
+    return profile.allow_stop_waivers

@@ -6,9 +6,12 @@ import enum
 from collections.abc import Iterable
 from dataclasses import dataclass, field, replace
 from functools import cached_property
-from typing import Any
+from typing import TYPE_CHECKING
 
 import pint
+
+if TYPE_CHECKING:  # imported only when a review has waivers
+    from reviewer.waivers import Waiver
 
 from reviewer.units import in_unit, in_units_of, is_offset, quantity, quantity_like
 
@@ -92,7 +95,7 @@ class Finding:
     sources: tuple[Source, ...] = ()
     missing: tuple[str, ...] = ()  # build fields whose absence left this unassessed
     error: str | None = None  # a rule that raised: its error
-    waiver: Any = None  # a reviewer.waivers.Waiver that accepted this finding
+    waiver: Waiver | None = None  # the waiver that accepted this finding
     rule_id: str = ""  # stamped by the engine from the rule that returned it
     title: str = ""  # likewise
 

@@ -18,6 +18,7 @@ even imported.
 
 from __future__ import annotations
 
+import hashlib
 import importlib.metadata
 import importlib.util
 import inspect
@@ -35,17 +36,20 @@ from pydantic import BaseModel
 from reviewer import hookspecs
 from reviewer.errors import InputError
 from reviewer.findings import Finding, Severity, Source, SourceStatus
-from reviewer.profile import Limit, Profile, parse_limits
-from reviewer.rule import RULE_ID_RE, Rule
+from reviewer.names import (
+    BLOCK_ENVIRONMENT,
+    BUILT_IN_PACK,
+    ENTRY_POINT_GROUP,
+    PACK_NAME_RE,
+    RULE_ID_RE,
+)
+from reviewer.profile import Limit, Profile, parse_limits, same_kind
+from reviewer.rule import Rule
+from reviewer.rule_settings import suggest
 
 if TYPE_CHECKING:
     from reviewer.build import Build
 
-ENTRY_POINT_GROUP = "firstride.packs"
-BUILT_IN_PACK = "core"
-BLOCK_ENVIRONMENT = "FIRSTRIDE_BLOCK_PACKS"
-#: A pack name is one segment of a rule id: its rules are ``<pack>.<check-name>``.
-PACK_NAME_RE = re.compile(r"^[a-z][a-z0-9]*(?:-[a-z0-9]+)*$")
 _HOOKS = tuple(sorted(n for n in dir(hookspecs) if n.startswith(f"{hookspecs.PROJECT}_")))
 
 
@@ -94,6 +98,7 @@ class PackManager:
         self.problems: list[PackProblem] = []
         self._rules: list[Rule] | None = None
         self._limits: dict[str, Limit] | None = None
+        self._limits_digest = ""
 
     # --- loading ------------------------------------------------------------------------------
 
@@ -261,9 +266,10 @@ class PackManager:
         return [collected[key] for key in sorted(collected)]
 
     def pack_limits(self) -> dict[str, Limit]:
-        """The default limits packs ship (``firstride_pack_limits``), each under its own name."""
+        """The default limits packs ship (``firstride_pack_limits``), each under its own name;
+        the built-in pack's sit under its rule areas (``speed.``, ``wiring.``, ...)."""
         if self._limits is None:
-            self._limits = {}
+            self._limits, digests = {}, []
             for impl in self._pm.hook.firstride_pack_limits.get_hookimpls():
                 pack = impl.plugin_name
                 try:
@@ -274,16 +280,53 @@ class PackManager:
                 except Exception as exc:  # noqa: BLE001 - reported as a problem
                     self._problem(pack, f"firstride_pack_limits failed: {_describe(exc)}")
                     continue
-                outside = sorted(key for key in limits if not key.startswith(f"{pack}."))
+                outside = sorted(key for key in limits if not self._owns(pack, key))
                 if outside:
                     self._problem(pack, f"limit {outside[0]!r} is not under limits.{pack}")
                     continue
                 self._limits.update(limits)
+                digests.append(f"{pack} {hashlib.sha256(text.encode()).hexdigest()}")
+            self._limits_digest = "\n".join(sorted(digests))
         return dict(self._limits)
 
+    def _owns(self, pack: str, key: str) -> bool:
+        """A pack sets limits under its own name; the built-in pack under any name that is not
+        another pack's (its rule areas are unprefixed)."""
+        head = key.split(".", 1)[0]
+        if pack == BUILT_IN_PACK:
+            return head not in self.packs or head == BUILT_IN_PACK
+        return head == pack
+
     def complete_profile(self, profile: Profile) -> Profile:
-        """The profile over the packs' default limits; the profile's own limits win."""
-        return profile.with_pack_limits(self.pack_limits())
+        """The profile over the packs' default limits; the profile's own limits win.
+
+        Every limit the profile sets must be one a pack ships, of the same kind: a misspelt
+        name (``max_sped``) would otherwise leave the pack's value in force unnoticed. Limits
+        of a pack that is not loaded (blocked, failed, required but absent) are let through: it
+        cannot say; the review reports the missing pack. The
+        fingerprint then covers the packs' limits too, so a review names what it compared
+        against.
+        """
+        limits = self.pack_limits()
+        if not limits:
+            return profile
+        absent = {p.pack for p in self.problems} | set(self.blocked) | set(profile.required_packs)
+        for key, limit in sorted(profile.limits.items()):
+            shipped = limits.get(key)
+            if shipped is None:
+                head = key.split(".", 1)[0]
+                if head in absent or (head not in self.packs and BUILT_IN_PACK not in self.packs):
+                    continue  # the pack that would own it is not here to say
+                hint = suggest(key, tuple(limits))
+                raise InputError(profile.path, f"limits.{key}", f"a limit a rule reads{hint}")
+            if not same_kind(shipped.value, limit.value):
+                raise InputError(
+                    profile.path,
+                    f"limits.{key}.value",
+                    f"the same kind of value as the pack's {shipped.value!r}",
+                )
+        fingerprint = hashlib.sha256(f"{profile.fingerprint}\n{self._limits_digest}".encode())
+        return replace(profile.with_pack_limits(limits), fingerprint=fingerprint.hexdigest())
 
     def check_extensions(self, build: Build, where: str) -> None:
         """Validate each pack's ``[extensions.<pack>]`` table against the model the pack gives

@@ -34,7 +34,7 @@ import pint
 from reviewer import units as u
 from reviewer.errors import InputError
 from reviewer.findings import Finding, Severity, Source, SourceStatus
-from reviewer.rule import RULE_ID_RE
+from reviewer.names import PACK_NAME_RE, RULE_ID_RE
 from reviewer.rule_settings import RuleSetting, parse_rule_setting, suggest
 from reviewer.watchdog import DEFAULT_BUDGET_S
 
@@ -87,7 +87,7 @@ class Profile:
     limits: dict[str, Limit]
     mandatory_rules: tuple[str, ...] = ()
     fingerprint: str = ""
-    extra: dict[str, Any] = field(default_factory=dict)
+    allow_stop_waivers: bool = False  # [waivers] allow_stop = true: a stop may be waived
     required_packs: tuple[str, ...] = ()
     rule_settings: dict[str, RuleSetting] = field(default_factory=dict)
     rule_time_budget: float = DEFAULT_BUDGET_S  # seconds; 0 runs rules unfenced
@@ -237,8 +237,6 @@ def parse_profile(text: str, where: str) -> Profile:
 def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
     """The profile over everything it extends, switched-off rules still listed as mandatory
     (a profile further down may switch them back on)."""
-    from reviewer.plugins import PACK_NAME_RE
-
     data = _toml(text, where)
     for table in data:
         if table not in TABLES:
@@ -268,7 +266,7 @@ def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
         limits=limits,
         mandatory_rules=_names(meta, "mandatory_rules", where, RULE_ID_RE, "rule ids"),
         fingerprint=hashlib.sha256(text.encode()).hexdigest(),
-        extra={k: v for k, v in data.items() if k not in ("profile", "limits", "rules")},
+        allow_stop_waivers=_allow_stop(_table(data, "waivers", where), where),
         required_packs=_names(meta, "required_packs", where, PACK_NAME_RE, "rule pack names"),
         rule_settings=settings,
         rule_time_budget=DEFAULT_BUDGET_S if budget is None else float(budget),
@@ -279,7 +277,18 @@ def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
     if not isinstance(extends, str) or not extends.strip():
         raise InputError(where, "profile.extends", f"'{BUILT_IN}' or the path of a profile file")
     parent = _load_parent(extends.strip(), where, (*seen, _identity(where)))
-    return _merge(parent, own, budget is not None, where)
+    return _merge(parent, own, budget is not None, "waivers" in data, where)
+
+
+def _allow_stop(table: dict[str, Any], where: str) -> bool:
+    """``[waivers]``: only ``allow_stop``, a true or false."""
+    for key in table:
+        if key != "allow_stop":
+            raise InputError(where, f"waivers.{key}", f"no such key{suggest(key, ('allow_stop',))}")
+    value = table.get("allow_stop", False)
+    if not isinstance(value, bool):
+        raise InputError(where, "waivers.allow_stop", "true or false")
+    return value
 
 
 def _identity(where: str) -> str:
@@ -307,10 +316,12 @@ def _load_parent(extends: str, child: str, seen: tuple[str, ...]) -> Profile:
     return _layered(_read_text(where, "profile.extends", child), where, seen)
 
 
-def _merge(parent: Profile, child: Profile, child_budget: bool, where: str) -> Profile:
+def _merge(
+    parent: Profile, child: Profile, child_budget: bool, child_waivers: bool, where: str
+) -> Profile:
     for key, limit in child.limits.items():
         inherited = parent.limits.get(key)
-        if inherited is not None and not _same_kind(inherited.value, limit.value):
+        if inherited is not None and not same_kind(inherited.value, limit.value):
             raise InputError(
                 where, f"limits.{key}.value", f"the same kind of value as {inherited.value!r}"
             )
@@ -323,7 +334,9 @@ def _merge(parent: Profile, child: Profile, child_budget: bool, where: str) -> P
         fingerprint=hashlib.sha256(
             f"{parent.fingerprint}\n{child.fingerprint}".encode()
         ).hexdigest(),
-        extra={**parent.extra, **child.extra},
+        allow_stop_waivers=(
+            child.allow_stop_waivers if child_waivers else parent.allow_stop_waivers
+        ),
         required_packs=tuple(dict.fromkeys((*parent.required_packs, *child.required_packs))),
         rule_settings={**parent.rule_settings, **child.rule_settings},
         rule_time_budget=child.rule_time_budget if child_budget else parent.rule_time_budget,
@@ -331,7 +344,7 @@ def _merge(parent: Profile, child: Profile, child_budget: bool, where: str) -> P
     )
 
 
-def _same_kind(old: object, new: object) -> bool:
+def same_kind(old: object, new: object) -> bool:
     if isinstance(old, pint.Quantity) or isinstance(new, pint.Quantity):
         return (
             isinstance(old, pint.Quantity)

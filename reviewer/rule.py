@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import inspect
-import re
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING
@@ -17,7 +16,6 @@ if TYPE_CHECKING:
 Output = Finding | DerivedFigure | Assumption
 CheckFunction = Callable[["Build", "Profile"], Iterable[Output]]
 
-RULE_ID_RE = re.compile(r"^[a-z][a-z0-9]*(?:-[a-z0-9]+)*(?:\.[a-z][a-z0-9]*(?:-[a-z0-9]+)*)+$")
 
 
 @dataclass(frozen=True)

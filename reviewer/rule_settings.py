@@ -12,7 +12,7 @@ from dataclasses import dataclass
 
 from reviewer.errors import InputError
 from reviewer.findings import Severity
-from reviewer.rule import RULE_ID_RE
+from reviewer.names import RULE_ID_RE
 
 _RULE_KEYS = ("enabled", "escalate_to", "justification", "by", "date")
 _ESCALATIONS = {s.value: s for s in (Severity.STOP, Severity.FIX, Severity.ADVISE)}

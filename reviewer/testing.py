@@ -19,20 +19,20 @@ from __future__ import annotations
 
 import copy
 import importlib
-from collections.abc import Iterable, Iterator, Mapping
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-import pytest
-
 from reviewer import __version__
 from reviewer.build import Build
-from reviewer.engine import Review, review, run_rule
+from reviewer.engine import Review, run_rule
 from reviewer.findings import Assumption, DerivedFigure, Finding, Severity
-from reviewer.plugins import BUILT_IN_PACK, PackManager
+from reviewer.names import BUILT_IN_PACK
+from reviewer.plugins import PackManager
 from reviewer.profile import Profile, load_profile, parse_profile
 from reviewer.rule import Rule
+from reviewer.session import Session, default_profile
 
 MINIMAL_VEHICLE = {"name": "test vehicle", "kind": "other"}
 BuildData = Mapping[str, Any] | Build
@@ -67,14 +67,14 @@ def _build(data: BuildData) -> Build:
 
 def run_rule_on(rule: Rule, data: BuildData, profile: Profile | None = None) -> list[Finding]:
     """Run one rule as the engine would (fenced and stamped) and return its findings."""
-    outputs = run_rule(rule, _build(data), profile or load_profile())
+    outputs = run_rule(rule, _build(data), profile or default_profile())
     return [item for item in outputs if isinstance(item, Finding)]
 
 
 def rule_outputs(
     rule: Rule, data: BuildData, profile: Profile | None = None
 ) -> tuple[list[Finding], list[DerivedFigure], list[Assumption]]:
-    outputs = run_rule(rule, _build(data), profile or load_profile())
+    outputs = run_rule(rule, _build(data), profile or default_profile())
     return (
         [o for o in outputs if isinstance(o, Finding)],
         [o for o in outputs if isinstance(o, DerivedFigure)],
@@ -130,12 +130,9 @@ class LoadedPack:
         build = _build(data)
         manager = self.manager
         if with_core and BUILT_IN_PACK not in manager.packs:
-            manager = PackManager(strict=True)
-            manager.register(importlib.import_module("firstride_rules"), BUILT_IN_PACK, __version__)
-            manager.register(self._plugin, self.name, "test")
-        manager.check_extensions(build, "(test build)")
-        full = manager.complete_profile(profile or self.profile)
-        return review(build, full, manager.rules(), problems=manager.problems)
+            manager = _with_core(self._plugin, self.name)
+        session = Session(manager, manager.complete_profile(profile or self.profile))
+        return session.review_build(build, where="(test build)")
 
     @property
     def _plugin(self) -> object:
@@ -151,16 +148,18 @@ def load_pack(
     manager: any problem (misspelled hook, faulty rule, bad default limits) raises, naming it.
 
     ``profile`` is a Profile, a profile file's path, or None for the built-in profile; the
-    pack's own default limits sit under it, as in a real review.
+    built-in pack's and this pack's default limits sit under it, as in a real review.
     """
     manager = PackManager(strict=True)
     manager.register(plugin, name, "test")
     rules = {rule.id: rule for rule in manager.rules()}
     base = profile if isinstance(profile, Profile) else load_profile(profile)
-    return LoadedPack(name, manager, rules, manager.complete_profile(base))
+    return LoadedPack(name, manager, rules, _with_core(plugin, name).complete_profile(base))
 
 
-@pytest.fixture
-def pack_manager() -> Iterator[PackManager]:
-    """A fresh pack manager with no packs loaded; register inline packs in the test."""
-    yield PackManager()
+def _with_core(plugin: object, name: str) -> PackManager:
+    """A strict manager with the built-in pack beside ``plugin``, as an installed pack has."""
+    manager = PackManager(strict=True)
+    manager.register(importlib.import_module("firstride_rules"), BUILT_IN_PACK, __version__)
+    manager.register(plugin, name, "test")
+    return manager

@@ -14,6 +14,7 @@ pack uses.
 from __future__ import annotations
 
 import importlib
+from importlib import resources
 
 from reviewer import hookimpl
 from reviewer.rule import Rule
@@ -49,3 +50,9 @@ def module_for(rule_id: str) -> str:
 @hookimpl
 def firstride_register_rules() -> list[Rule]:
     return [importlib.import_module(module_for(rule_id)).RULE for rule_id in RULE_IDS]
+
+
+@hookimpl
+def firstride_pack_limits() -> str:
+    """The limits the built-in rules compare against (``limits.toml``), each with its source."""
+    return resources.files(__name__).joinpath("limits.toml").read_text("utf-8")

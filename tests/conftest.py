@@ -1,4 +1,8 @@
-"""Shared fixtures: paths to the samples and a helper that writes a build file."""
+"""Shared fixtures: paths to the samples and a helper that writes a build file.
+
+The rule authors' fixtures (``pack_manager``, ``built_in_profile``) come from firstride's own
+pytest plugin (``reviewer.pytest_plugin``, entry point ``pytest11``), as in any pack's tests.
+"""
 
 from __future__ import annotations
 
@@ -6,8 +10,6 @@ from collections.abc import Callable
 from pathlib import Path
 
 import pytest
-
-from reviewer.testing import pack_manager  # noqa: F401 - re-exported fixture for rule authors
 
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "sample_builds"

@@ -15,6 +15,7 @@ from reviewer.findings import Finding, Severity, Source, Verdict
 from reviewer.profile import load_profile, parse_profile
 from reviewer.report import render_markdown
 from reviewer.rule import Rule
+from reviewer.session import built_in_profile
 from reviewer.testing import make_build, severities
 
 SOURCES = (Source.common_practice("test rule"),)
@@ -53,7 +54,7 @@ def test_extending_the_built_in_profile_inherits_and_overrides(write) -> None:
         '[profile]\nname = "club"\nextends = "default"\nmandatory_rules = ["club.extra"]\n'
         + LIMIT.format(key="speed.max_speed.youth", value="15 km/h", source="club rule 3"),
     )
-    base, club = load_profile(), load_profile(path)
+    base, club = built_in_profile(), built_in_profile(path)
     assert club.name == "club" and club.extends == ("(built-in) default.toml",)
     assert club.limit("speed.max_speed.youth").magnitude("km/h") == pytest.approx(15)
     assert club.limit("speed.max_speed.youth").source.citation == "club rule 3"
@@ -115,7 +116,7 @@ def test_override_must_keep_the_kind_of_value(write) -> None:
         + LIMIT.format(key="speed.max_speed.adult", value="25 kg", source="typo"),
     )
     with pytest.raises(InputError, match="same kind"):
-        load_profile(path)
+        built_in_profile(path)
 
 
 @pytest.mark.parametrize(

@@ -8,11 +8,9 @@ from pathlib import Path
 import pytest
 from markdown_it import MarkdownIt
 
-from reviewer.engine import review
 from reviewer.loader import load_build, parse_build
-from reviewer.plugins import default_manager
-from reviewer.profile import load_profile
 from reviewer.report import markdown_text, render_markdown
+from reviewer.session import open_session
 
 from .conftest import SAMPLES
 
@@ -21,14 +19,7 @@ HOSTILE = "Evil | # *bold* <script>alert(1)</script> `tick` [link](x) _u_ \\ ~"
 
 def _render(path: Path | None = None, raw: bytes | None = None) -> str:
     loaded = load_build(path) if raw is None else parse_build(raw, "hostile.toml")
-    result = review(
-        loaded.build,
-        load_profile(),
-        default_manager().rules(),
-        build_path=loaded.path,
-        build_fingerprint=loaded.fingerprint,
-    )
-    return render_markdown(result)
+    return render_markdown(open_session().review_loaded(loaded))
 
 
 def _tables(text: str) -> list[list[list[str]]]:

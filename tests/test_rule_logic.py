@@ -17,7 +17,8 @@ from reviewer.engineering.pins import (
     worst_pin_current,
 )
 from reviewer.findings import Severity, Source
-from reviewer.profile import Limit, Profile, load_profile
+from reviewer.profile import Limit, Profile
+from reviewer.session import default_profile
 from reviewer.testing import rule_outputs, run_rule_on
 
 PINS = ["PB0", "PB1", "PB2", "PB3", "PC0", "PC1", "PC2", "PC3", "PD0", "PD1"]
@@ -46,7 +47,7 @@ def _by_subject(data: dict[str, Any], profile: Profile | None = None) -> dict[st
 
 
 def _profile_with(key: str, value: float) -> Profile:
-    profile = load_profile()
+    profile = default_profile()
     limits = {**profile.limits, key: Limit(key, value, Source.common_practice("test profile"))}
     return replace(profile, limits=limits)
 

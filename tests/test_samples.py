@@ -30,13 +30,9 @@ def test_sample_verdict_and_exit_code(name: str, tmp_path: Path, capsys) -> None
 
 
 def test_no_go_sample_has_stops_from_at_least_three_core_rules() -> None:
-    from reviewer.engine import review
-    from reviewer.loader import load_build
-    from reviewer.plugins import default_manager
-    from reviewer.profile import load_profile
+    from reviewer.session import review_file
 
-    loaded = load_build(SAMPLES / "garage-sprint-board.toml")
-    result = review(loaded.build, load_profile(), default_manager().rules())
+    result = review_file(SAMPLES / "garage-sprint-board.toml")
     core = {
         "wiring.stall-current",
         "motor.cooling",

@@ -11,10 +11,8 @@ import jinja2
 import pytest
 
 from reviewer import report, template_cache
-from reviewer.engine import Review, review
-from reviewer.loader import load_build
-from reviewer.plugins import default_manager
-from reviewer.profile import load_profile
+from reviewer.engine import Review
+from reviewer.session import review_file
 from reviewer.template_cache import TemplateCache, bytecode_cache, settings_key
 
 from .conftest import SAMPLES
@@ -40,8 +38,7 @@ def _environment(cache: jinja2.BytecodeCache | None, **changed: bool) -> jinja2.
 
 @pytest.fixture(scope="module")
 def result() -> Review:
-    loaded = load_build(SAMPLES / "quayside-commuter.toml")
-    return review(loaded.build, load_profile(), default_manager().rules())
+    return review_file(SAMPLES / "quayside-commuter.toml")
 
 
 def _render(result: Review, env: jinja2.Environment, monkeypatch: pytest.MonkeyPatch) -> str:

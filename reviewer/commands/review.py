@@ -4,11 +4,14 @@ from __future__ import annotations
 
 import argparse
 import sys
-from dataclasses import replace
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from reviewer.commands import EXIT_FINDINGS, EXIT_GO
 from reviewer.commands.pack_options import add_pack_arguments, packs_from
+
+if TYPE_CHECKING:
+    from reviewer.engine import Review
 
 NAME = "review"
 HELP = "review a build file and write the report"
@@ -39,41 +42,17 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from reviewer.engine import review
     from reviewer.findings import Severity, Verdict
-    from reviewer.loader import load_build
-    from reviewer.profile import load_profile
+    from reviewer.session import review_file
 
-    loaded = load_build(args.build)
-    profile = load_profile(args.profile)
-    waivers = None
-    if args.waivers:
-        from reviewer.waivers import load_waivers
-
-        waivers = load_waivers(args.waivers)
-    previous = None
-    if args.since:  # imported only when asked: change reports are not on every review's path
-        from reviewer.changes import load_previous
-
-        previous = load_previous(args.since)
-    manager = packs_from(args)
-    profile = manager.complete_profile(profile)  # packs' default limits, under the profile's
-    manager.check_extensions(loaded.build, str(args.build))
-    result = review(
-        loaded.build,
-        profile,
-        manager.rules(),
-        build_path=Path(args.build).as_posix(),
-        build_fingerprint=loaded.fingerprint,
-        problems=manager.problems,
-        waivers=waivers,
+    result = review_file(
+        args.build,
+        profile=args.profile,
+        packs=lambda: packs_from(args),
+        waivers=args.waivers,
+        since=args.since,
     )
-    if previous is not None:
-        from reviewer.changes import compare
-
-        changes = compare(previous, Path(args.since).as_posix(), result.findings, loaded.data)
-        result = replace(result, changes=changes)
-    text = render(result, args.format, loaded.data)
+    text = render(result, args.format)
     if args.output:
         from reviewer.output import write_whole
 
@@ -93,17 +72,17 @@ def run(args: argparse.Namespace) -> int:
     return EXIT_FINDINGS if failing else EXIT_GO
 
 
-def render(result: object, form: str, build_data: dict[str, object]) -> str:
+def render(result: Review, form: str) -> str:
     """The review in the asked-for form; HTML is rendered from the same Markdown."""
     from reviewer.report import render_markdown
 
     if form == "json":
         from reviewer.export import render_json
 
-        return render_json(result, build_data)  # type: ignore[arg-type]
-    markdown = render_markdown(result)  # type: ignore[arg-type]
+        return render_json(result, result.build_data)
+    markdown = render_markdown(result)
     if form == "html":
         from reviewer.html import render_html
 
-        return render_html(result, markdown)  # type: ignore[arg-type]
+        return render_html(result, markdown)
     return markdown
