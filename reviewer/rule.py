@@ -17,7 +17,6 @@ Output = Finding | DerivedFigure | Assumption
 CheckFunction = Callable[["Build", "Profile"], Iterable[Output]]
 
 
-
 @dataclass(frozen=True)
 class Rule:
     """A check over a validated build.
