@@ -54,20 +54,15 @@ def process_seconds(commands: dict[str, list[str]], runs: int) -> dict[str, list
 
 
 def in_process_rate(sample: Path, seconds: float) -> tuple[float, float]:
-    from reviewer.engine import review
     from reviewer.loader import parse_build
-    from reviewer.plugins import default_manager
-    from reviewer.profile import load_profile
     from reviewer.report import render_markdown
+    from reviewer.session import open_session
 
     raw = sample.read_bytes()
-    profile = load_profile()
-    rules = default_manager().rules()
+    session = open_session()  # packs and profile loaded once, as for a fleet
 
     def one() -> None:
-        loaded = parse_build(raw, str(sample))
-        result = review(loaded.build, profile, rules, build_fingerprint=loaded.fingerprint)
-        render_markdown(result)
+        render_markdown(session.review_loaded(parse_build(raw, str(sample))))
 
     one()  # warm caches (templates, unit references)
     rates = []
@@ -111,9 +106,9 @@ def _process_steps(build: str) -> None:
     mark("build models")
     parser, _ = cli._parser()
     args = parser.parse_args(["review", build])
-    from reviewer.engine import review
     from reviewer.loader import load_build
     from reviewer.profile import load_profile
+    from reviewer.session import open_session
 
     mark("command line, engine modules")
     loaded = load_build(args.build)
@@ -122,18 +117,9 @@ def _process_steps(build: str) -> None:
     mark("profile")
     from reviewer.commands.pack_options import packs_from
 
-    manager = packs_from(args)
-    profile = manager.complete_profile(profile)
-    manager.check_extensions(loaded.build, str(args.build))
+    session = open_session(profile, packs_from(args))
     mark("rule packs (imports the rules)")
-    result = review(
-        loaded.build,
-        profile,
-        manager.rules(),
-        build_path=Path(args.build).as_posix(),
-        build_fingerprint=loaded.fingerprint,
-        problems=manager.problems,
-    )
+    result = session.review_loaded(loaded)
     mark("rules run")
     from reviewer.report import environment, render_markdown
 
@@ -172,14 +158,13 @@ def in_process_phases(sample: Path, repeats: int = 300) -> list[tuple[str, list[
 
     from reviewer.build import Build
     from reviewer.engine import review
-    from reviewer.plugins import default_manager
-    from reviewer.profile import load_profile
     from reviewer.report import render_markdown
+    from reviewer.session import open_session
 
     raw = sample.read_bytes()
-    profile = load_profile()
+    session = open_session()  # the steps of Session.review_loaded, timed one by one
+    profile, rules = session.profile, session.manager.rules()
     inline = replace(profile, rule_time_budget=0)
-    rules = default_manager().rules()
     rows: dict[str, list[float]] = {}
 
     def timed(name: str, function: Callable[..., Any], *arguments: Any) -> Any:
