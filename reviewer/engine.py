@@ -16,13 +16,14 @@ from reviewer.findings import (
     Verdict,
     decide_verdict,
 )
-from reviewer.plugins import PackProblem, setup_findings
 from reviewer.profile import MissingLimit, Profile
 from reviewer.rule import Rule
+from reviewer.setup_checks import setup_findings
 from reviewer.watchdog import Outcome, RuleTimeout, call_each_with_budget
 
 if TYPE_CHECKING:  # waivers are imported when a review has some: most reviews have none
     from reviewer.changes import Changes
+    from reviewer.plugins import PackProblem
     from reviewer.waivers import WaiverNote, WaiverSet
 
 

@@ -35,16 +35,14 @@ from pydantic import BaseModel
 
 from reviewer import hookspecs
 from reviewer.errors import InputError
-from reviewer.findings import Finding, Severity, Source, SourceStatus
 from reviewer.names import (
     BLOCK_ENVIRONMENT,
     BUILT_IN_PACK,
     ENTRY_POINT_GROUP,
     PACK_NAME_RE,
-    RULE_ID_RE,
 )
 from reviewer.profile import Limit, Profile, parse_limits, same_kind
-from reviewer.rule import Rule
+from reviewer.rule import Rule, rule_problems
 from reviewer.rule_settings import suggest
 
 if TYPE_CHECKING:
@@ -343,73 +341,6 @@ class PackManager:
                 self._problem(pack, f"firstride_build_extension failed: {_describe(exc)}")
                 continue
             validate_extension(build, pack, model, where)
-
-
-def rule_problems(rule: Rule, pack: str | None = None) -> list[str]:
-    """What a rule lacks to be registered: id form (prefixed by its pack's name, except in the
-    built-in pack), title, documentation, sources with their status, a callable check."""
-    problems = []
-    if not isinstance(rule.id, str) or not RULE_ID_RE.match(rule.id):
-        problems.append("id must be a lowercase dotted slug like 'area.check-name'")
-    elif pack is not None and pack != BUILT_IN_PACK and not rule.id.startswith(f"{pack}."):
-        problems.append(f"id must start with the pack's name: '{pack}.{rule.id.split('.')[-1]}'")
-    if not isinstance(rule.title, str) or not rule.title.strip():
-        problems.append("no title")
-    if not rule.doc.strip():
-        problems.append("no documentation (give documentation= or a docstring on check)")
-    if not rule.sources:
-        problems.append("no source")
-    for source in rule.sources:
-        if not isinstance(source, Source) or not str(source.citation).strip():
-            problems.append(f"source {source!r} is not a Source with a citation")
-        elif not isinstance(source.status, SourceStatus):
-            problems.append(f"source {source.citation!r} has no SourceStatus")
-    if not rule.severities or not all(isinstance(s, Severity) for s in rule.severities):
-        problems.append("severities must be Severity members")
-    if not callable(rule.check):
-        problems.append("check is not callable")
-    return problems
-
-
-def setup_findings(
-    profile: Profile, rules: Sequence[Rule], problems: Sequence[PackProblem]
-) -> list[Finding]:
-    """Findings about the review's own setup, each an ``unassessed`` error (so the review is
-    ``incomplete``): a required pack that failed, was blocked or is absent; a profile that
-    escalates a rule no loaded pack provides."""
-    findings = []
-    failed = {p.pack: p for p in problems}
-    loaded = {rule.pack for rule in rules}
-    for pack in profile.required_packs:
-        problem = failed.get(pack)
-        if problem is not None:
-            verb = "was blocked" if problem.blocked else "failed"
-            reason = f"the profile requires rule pack {pack}, which {verb}: {problem.error}"
-        elif pack not in loaded:
-            reason = f"the profile requires rule pack {pack}, which is not installed"
-        else:
-            continue
-        findings.append(_setup_finding(pack, f"rule pack {pack}", "(whole pack)", reason))
-    known = {rule.id for rule in rules}
-    for setting in profile.escalations:
-        if setting.rule_id not in known:
-            reason = (
-                f"the profile escalates rule {setting.rule_id}, which no loaded pack provides: "
-                "check the rule id"
-            )
-            findings.append(_setup_finding(setting.rule_id, setting.rule_id, "(profile)", reason))
-    return findings
-
-
-def _setup_finding(rule_id: str, title: str, subject: str, reason: str) -> Finding:
-    return Finding(
-        severity=Severity.UNASSESSED,
-        subject=subject,
-        rationale=reason,
-        error=reason,
-        rule_id=rule_id,
-        title=title,
-    )
 
 
 def _describe(exc: BaseException) -> str:

@@ -5,8 +5,9 @@ from __future__ import annotations
 import pytest
 
 from reviewer.cli import main
-from reviewer.plugins import default_manager, rule_problems
+from reviewer.plugins import default_manager
 from reviewer.profile import load_profile
+from reviewer.rule import rule_problems
 
 CORE = {
     "wiring.stall-current",
