@@ -39,6 +39,15 @@ def markdown_to_html(markdown: str) -> str:
     return _markdown().render(markdown)
 
 
+def page_from_markdown(markdown: str, *, title: str) -> str:
+    """Any Markdown of ours (a fleet summary) as a page in the same shell as a review."""
+    from reviewer import __version__
+
+    body = Markup(markdown_to_html(markdown))  # markdown-it output with raw HTML disabled
+    template = _environment().get_template("page.html.j2")
+    return template.render(title=title, tool_version=__version__, body=body) + "\n"
+
+
 def render_html(review: Review, markdown: str) -> str:
     body = Markup(markdown_to_html(markdown))  # markdown-it output with raw HTML disabled
     template = _environment().get_template("review.html.j2")

@@ -1,4 +1,9 @@
-"""``firstride review BUILD``: run every rule and write the review."""
+"""``firstride review BUILD...``: run every rule and write the review.
+
+One build file: its review on stdout or to ``-o FILE``. Several build files or a folder of them
+(a fleet): one review each into the folder ``-o DIR``, named after each build file, and a fleet
+summary beside them; a bad build file is a row of the summary and the others still run.
+"""
 
 from __future__ import annotations
 
@@ -18,8 +23,14 @@ HELP = "review a build file and write the report"
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("build", help="the build file (TOML)")
-    parser.add_argument("-o", "--output", help="write the review here instead of stdout")
+    parser.add_argument(
+        "build", nargs="+", help="the build file (TOML); several, or folders of them, for a fleet"
+    )
+    parser.add_argument(
+        "-o",
+        "--output",
+        help="write the review here instead of stdout; for a fleet, the folder for its reviews",
+    )
     parser.add_argument("--profile", help="a profile of limits (TOML); default: built-in")
     parser.add_argument(
         "--fail-on",
@@ -38,15 +49,35 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument(
         "--since", metavar="PREVIOUS.json", help="a previous review in JSON form: report changes"
     )
+    parser.add_argument(
+        "--jobs",
+        type=_jobs,
+        default=1,
+        metavar="N",
+        help="for a fleet: review in N processes (default 1; 0 = one per core)",
+    )
     add_pack_arguments(parser)
 
 
+def _jobs(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"a whole number of processes, not {text!r}") from None
+    if not 0 <= value <= 256:
+        raise argparse.ArgumentTypeError("between 0 (one per core) and 256 processes")
+    return value
+
+
 def run(args: argparse.Namespace) -> int:
-    from reviewer.findings import Severity, Verdict
+    if len(args.build) > 1 or Path(args.build[0]).is_dir():
+        from reviewer.commands.review_fleet import run_fleet
+
+        return run_fleet(args)
     from reviewer.session import review_file
 
     result = review_file(
-        args.build,
+        args.build[0],
         profile=args.profile,
         packs=lambda: packs_from(args),
         waivers=args.waivers,
@@ -60,10 +91,17 @@ def run(args: argparse.Namespace) -> int:
     else:
         sys.stdout.write(text)
     print(f"firstride: verdict {result.verdict.value}", file=sys.stderr)
+    return exit_status(result, args.fail_on)
+
+
+def exit_status(result: Review, fail_on: str) -> int:
+    """1 for a no-go or incomplete review, or a counting finding at ``fail_on`` or worse."""
+    from reviewer.findings import Severity, Verdict
+
     if result.verdict in (Verdict.NO_GO, Verdict.INCOMPLETE):
         return EXIT_FINDINGS
     threshold = {"stop": Severity.STOP, "fix": Severity.FIX, "advise": Severity.ADVISE}
-    worst = threshold[args.fail_on].rank
+    worst = threshold[fail_on].rank
     failing = [
         f
         for f in result.findings
