@@ -53,6 +53,17 @@ class Review:
     def waived(self) -> int:
         return sum(1 for f in self.findings if f.waiver is not None)
 
+    def fails(self, fail_on: str = "fix") -> bool:
+        """A no-go or incomplete review, or a finding of ``fail_on`` (stop, fix, advise) or
+        worse: what makes ``firstride review`` exit 1."""
+        if self.verdict in (Verdict.NO_GO, Verdict.INCOMPLETE):
+            return True
+        worst = Severity(fail_on).rank
+        return any(
+            f.severity is not Severity.UNASSESSED and f.severity.rank <= worst
+            for f in self.findings
+        )
+
     @property
     def packs(self) -> list[tuple[str, str]]:
         return sorted({(r.pack, r.pack_version) for r in self.rules})

@@ -17,6 +17,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from reviewer.commands import EXIT_FINDINGS, EXIT_GO, EXIT_INPUT
 from reviewer.errors import InputError
 from reviewer.findings import Severity, Verdict
 
@@ -41,7 +42,7 @@ class FleetEntry:
     counts: dict[str, int] = field(default_factory=dict)
     first_action: str = ""
     error: str = ""
-    exit_status: int = 2
+    exit_status: int = EXIT_INPUT
 
 
 @dataclass(frozen=True)
@@ -128,7 +129,7 @@ def review_one(
     session: Any, path: Path, output: str, options: FleetOptions
 ) -> tuple[str, FleetEntry]:
     """One build of the fleet: its review text and its summary row (an input error is a row)."""
-    from reviewer.commands.review import exit_status, render
+    from reviewer.formats import render_review
     from reviewer.loader import load_build
 
     try:
@@ -145,9 +146,9 @@ def review_one(
         verdict=result.verdict.value,
         counts=counts,
         first_action=first_action(result),
-        exit_status=exit_status(result, options.fail_on),
+        exit_status=EXIT_FINDINGS if result.fails(options.fail_on) else EXIT_GO,
     )
-    return render(result, options.form), entry
+    return render_review(result, options.form), entry
 
 
 def _review_in_worker(item: tuple[Path, str, FleetOptions]) -> tuple[str, FleetEntry]:

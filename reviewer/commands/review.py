@@ -74,6 +74,7 @@ def run(args: argparse.Namespace) -> int:
         from reviewer.commands.review_fleet import run_fleet
 
         return run_fleet(args)
+    from reviewer.formats import render_review
     from reviewer.session import review_file
 
     result = review_file(
@@ -83,7 +84,7 @@ def run(args: argparse.Namespace) -> int:
         waivers=args.waivers,
         since=args.since,
     )
-    text = render(result, args.format)
+    text = render_review(result, args.format)
     if args.output:
         from reviewer.output import write_whole
 
@@ -96,31 +97,4 @@ def run(args: argparse.Namespace) -> int:
 
 def exit_status(result: Review, fail_on: str) -> int:
     """1 for a no-go or incomplete review, or a counting finding at ``fail_on`` or worse."""
-    from reviewer.findings import Severity, Verdict
-
-    if result.verdict in (Verdict.NO_GO, Verdict.INCOMPLETE):
-        return EXIT_FINDINGS
-    threshold = {"stop": Severity.STOP, "fix": Severity.FIX, "advise": Severity.ADVISE}
-    worst = threshold[fail_on].rank
-    failing = [
-        f
-        for f in result.findings
-        if f.severity is not Severity.UNASSESSED and f.severity.rank <= worst
-    ]
-    return EXIT_FINDINGS if failing else EXIT_GO
-
-
-def render(result: Review, form: str) -> str:
-    """The review in the asked-for form; HTML is rendered from the same Markdown."""
-    from reviewer.report import render_markdown
-
-    if form == "json":
-        from reviewer.export import render_json
-
-        return render_json(result, result.build_data)
-    markdown = render_markdown(result)
-    if form == "html":
-        from reviewer.html import render_html
-
-        return render_html(result, markdown)
-    return markdown
+    return EXIT_FINDINGS if result.fails(fail_on) else EXIT_GO
