@@ -13,11 +13,9 @@ from reviewer.build import Battery, Build, Circuit, Motor, Wire
 from reviewer.engineering.cells import CELL_VOLTAGES, CellVoltages
 from reviewer.engineering.conductors import (
     Ampacity,
-    awg_area,
     awg_for_area,
     conductor_resistance,
     datasheet_ampacity,
-    parse_awg,
     tabulated_ampacity,
     thin_wire_ampacity_bound,
 )
@@ -61,7 +59,8 @@ def wire_resistance(wire: Wire, temperature_c: float = 20.0) -> float:
 def wire_area_mm2(wire: Wire) -> float:
     if wire.cross_section is not None:
         return in_unit(wire.cross_section, "mm**2")
-    return awg_area(wire.gauge or "")
+    assert wire.gauge is not None  # the build model requires one of the two
+    return wire.gauge.area_mm2
 
 
 def motor_of(build: Build, wire: Wire) -> Motor | None:
@@ -287,7 +286,8 @@ def wire_awg(wire: Wire) -> int:
     not above its area (rounding down is conservative)."""
     if wire.cross_section is not None:
         return awg_for_area(in_unit(wire.cross_section, "mm**2"))
-    return parse_awg(wire.gauge or "")
+    assert wire.gauge is not None  # the build model requires one of the two
+    return wire.gauge.awg
 
 
 def wire_ampacity(wire: Wire, ambient_c: float) -> Ampacity | None:

@@ -32,6 +32,7 @@ from typing import Any
 import pint
 
 from reviewer import units as u
+from reviewer.engineering.ingress import IngressCode, parse_ip_code
 from reviewer.errors import InputError
 from reviewer.findings import Finding, Severity, Source, SourceStatus
 from reviewer.names import PACK_NAME_RE, RULE_ID_RE
@@ -53,13 +54,15 @@ _PROFILE_KEYS = (
     "required_packs",
     "rule_time_budget",
 )
+#: A limit value that is an IP code ("IP54", "IPX5/IPX7").
+_IP_LIKE = re.compile(r"^\s*IP[0-9X]", re.IGNORECASE)
 _BUDGET = u.Dimension("s", "2 s", "a duration", 0.0, 600.0, allow_zero=True)
 
 
 @dataclass(frozen=True)
 class Limit:
     key: str
-    value: pint.Quantity | float | str | bool
+    value: pint.Quantity | IngressCode | float | str | bool
     source: Source
 
     @property
@@ -153,7 +156,7 @@ def _parse_limit(key: str, table: dict[str, Any], where: str) -> Limit:
     if status is None:
         raise InputError(where, f"limits.{key}.status", f"one of {', '.join(sorted(_STATUS))}")
     raw = table["value"]
-    value: pint.Quantity | float | str | bool
+    value: pint.Quantity | IngressCode | float | str | bool
     if isinstance(raw, bool):
         value = raw
     elif isinstance(raw, int | float):
@@ -162,6 +165,11 @@ def _parse_limit(key: str, table: dict[str, Any], where: str) -> Limit:
         try:
             value = u.parse_quantity(raw, _guess_dimension(raw))
         except u.QuantityError as exc:
+            raise InputError(where, f"limits.{key}.value", str(exc)) from None
+    elif isinstance(raw, str) and _IP_LIKE.match(raw):
+        try:  # an IP code is parsed here, once, like a build file's
+            value = parse_ip_code(raw)
+        except ValueError as exc:
             raise InputError(where, f"limits.{key}.value", str(exc)) from None
     elif isinstance(raw, str):
         value = raw

@@ -21,6 +21,8 @@ COPPER_RESISTIVITY_20C = 1 / 58
 COPPER_INFERRED_ZERO = 234.5
 
 _AWG_RE = re.compile(r"^\s*(?P<n>\d{1,2})(?P<aught>/0)?\s*(?:AWG)?\s*$", re.IGNORECASE)
+#: What an AWG size may look like, for a JSON Schema (ECMA-262: the case spelled out).
+AWG_PATTERN = r"^\s*\d{1,2}(/0)?\s*([Aa][Ww][Gg])?\s*$"
 
 
 # --- AWG geometry and resistance ------------------------------------------------------------

@@ -42,6 +42,10 @@ _IP_RE = re.compile(
     r"^IP(?P<solids>[0-9X])(?P<water>[0-9X])(?P<additional>[A-D]?)(?P<supplementary>[HMSW]*)$"
 )
 _MAX_TEXT = 32
+_ONE_CODE = r"[Ii] *[Pp] *[0-9Xx] *[0-9Xx] *[A-Da-d]? *[HMSWhmsw]*"
+#: What an IP code may look like, for a JSON Schema: one code, or several joined by '/'
+#: (later ones may leave out the IP); case and spaces are free, as the parser allows.
+IP_PATTERN = rf"^ *{_ONE_CODE}( */ *([Ii] *[Pp])? *[0-9Xx] *[0-9Xx] *[A-Da-d]? *[HMSWhmsw]*)* *$"
 
 
 @dataclass(frozen=True)

@@ -4,13 +4,11 @@ and the mechanical housing of lithium cells under a deck."""
 from __future__ import annotations
 
 from collections.abc import Iterator
-from functools import lru_cache
 
 from reviewer.build import Build, Conditions, Enclosure, VehicleKind
 from reviewer.engineering.ingress import (
     IngressCode,
     describe_code,
-    parse_ip_code,
     required_code_text,
 )
 from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
@@ -68,7 +66,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     minimum: IngressCode | None = None
     if conditions is not None:
         limit = profile.limit(f"enclosure.minimum_ip.{conditions.value}")
-        minimum = _minimum_code(str(limit.value), limit.key)
+        if not isinstance(limit.value, IngressCode):
+            raise ValueError(f"profile limit {limit.key}: an IP code such as 'IP54'")
+        minimum = limit.value
         yield DerivedFigure(
             name=f"minimum IP code for {conditions.value} use",
             value=minimum.text,
@@ -94,14 +94,6 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         is_battery=True,
     )
     yield from _housing(build, enclosure, minimum)
-
-
-@lru_cache(maxsize=32)
-def _minimum_code(text: str, key: str) -> IngressCode:
-    try:
-        return parse_ip_code(text)
-    except ValueError as exc:
-        raise ValueError(f"profile limit {key}: {exc}") from None
 
 
 def _ip_finding(

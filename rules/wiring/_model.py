@@ -13,10 +13,8 @@ from functools import cached_property
 from reviewer import derived
 from reviewer.build import Build, Circuit, Fuse, Wire
 from reviewer.engineering.conductors import (
-    awg_area,
     awg_for_area,
     conductor_resistance,
-    parse_awg,
 )
 from reviewer.findings import Assumption, Source
 from reviewer.profile import Profile
@@ -118,8 +116,8 @@ def conductor_from(build: Build, index: int, wire: Wire) -> Conductor:
         area = derived.in_unit(wire.cross_section, "mm**2")
         awg = awg_for_area(area)
     else:
-        awg = parse_awg(wire.gauge or "")
-        area = awg_area(awg)
+        assert wire.gauge is not None  # the build model requires one of the two
+        awg, area = wire.gauge.awg, wire.gauge.area_mm2
     motor = None
     if wire.circuit is Circuit.MOTOR:
         fed = derived.motor_of(build, wire)
