@@ -1,0 +1,144 @@
+"""The build file: one vehicle described once, validated into frozen pydantic models.
+
+Every quantity and code is parsed here, once (:mod:`reviewer.build.fields`): quantities into
+pint quantities in a fixed unit, wire gauges and IP codes into structured values. Absent fields
+are allowed: the rules that need them report ``unassessed`` and name the field. Unknown keys are
+errors (a misspelt key would otherwise silently drop a limit). One module per section:
+``vehicle`` (vehicle, riders, use, housing), ``power`` (pack, motors, drivetrain, controller,
+brake), ``logic`` (the logic board), ``wiring`` (wires and fuses).
+"""
+
+from typing import Self
+
+from pydantic import Field, model_validator
+
+from reviewer.build.fields import MAX_ITEMS, MAX_RIDERS, Name, WireGauge, _Model
+from reviewer.build.logic import Logic, PinLoad, PortGroup, Regulator
+from reviewer.build.power import (
+    Battery,
+    Brake,
+    BrakeKind,
+    Chemistry,
+    Controller,
+    Cooling,
+    Drivetrain,
+    InsulationClass,
+    LimitKind,
+    Motor,
+    MotorType,
+)
+from reviewer.build.vehicle import (
+    Conditions,
+    Enclosure,
+    Rider,
+    RiderClass,
+    Usage,
+    Vehicle,
+    VehicleKind,
+)
+from reviewer.build.wiring import Circuit, Fuse, Insulation, Wire
+
+__all__ = [
+    "Battery",
+    "Brake",
+    "BrakeKind",
+    "Build",
+    "Chemistry",
+    "Circuit",
+    "Conditions",
+    "Controller",
+    "Cooling",
+    "Drivetrain",
+    "Enclosure",
+    "Fuse",
+    "Insulation",
+    "InsulationClass",
+    "LimitKind",
+    "Logic",
+    "Motor",
+    "MotorType",
+    "PinLoad",
+    "PortGroup",
+    "Regulator",
+    "Rider",
+    "RiderClass",
+    "Usage",
+    "Vehicle",
+    "VehicleKind",
+    "Wire",
+    "WireGauge",
+    "build_json_schema",
+]
+
+
+class Build(_Model):
+    """One vehicle, as its builder describes it."""
+
+    vehicle: Vehicle
+    riders: list[Rider] = Field(default_factory=list, max_length=MAX_RIDERS)
+    battery: Battery | None = None
+    motors: list[Motor] = Field(default_factory=list, max_length=8)
+    drivetrain: Drivetrain | None = None
+    controller: Controller | None = None
+    brake: Brake | None = None
+    logic: Logic | None = None
+    wires: list[Wire] = Field(default_factory=list, max_length=MAX_ITEMS)
+    fuses: list[Fuse] = Field(default_factory=list, max_length=MAX_ITEMS)
+    enclosure: Enclosure | None = None
+    usage: Usage = Usage()
+    extensions: dict[Name, dict[str, object]] = Field(
+        default_factory=dict,
+        max_length=MAX_ITEMS,
+        description="inputs of installed rule packs, one [extensions.<pack>] table each; "
+        "each pack validates its own table (see reviewer.extensions)",
+    )
+
+    @model_validator(mode="after")
+    def _cross_references(self) -> Self:
+        names = [m.name for m in self.motors]
+        if len(set(names)) != len(names):
+            raise ValueError("motor names must be unique")
+        wire_names = [w.name for w in self.wires]
+        if len(set(wire_names)) != len(wire_names):
+            raise ValueError("wire names must be unique")
+        for wire in self.wires:
+            if wire.motor is not None and wire.motor not in names:
+                raise ValueError(f"wire {wire.name!r} names motor {wire.motor!r}, not in motors")
+            if wire.circuit is Circuit.MOTOR and wire.motor is None and len(names) > 1:
+                raise ValueError(
+                    f"wire {wire.name!r} is on the motor circuit of a build with several motors: "
+                    "name its motor"
+                )
+        for fuse in self.fuses:
+            for name in fuse.protects:
+                if name not in wire_names:
+                    raise ValueError(f"fuse {fuse.name!r} protects {name!r}, not in wires")
+        return self
+
+
+def build_json_schema() -> dict[str, object]:
+    """The build file's JSON Schema. TOML has no null, so optional fields are simply optional:
+    drop the ``null`` branch pydantic adds for ``X | None``."""
+
+    def strip_null(node: object) -> object:
+        if isinstance(node, dict):
+            options = node.get("anyOf")
+            if isinstance(options, list):
+                kept = [o for o in options if o != {"type": "null"}]
+                if len(kept) == 1 and len(kept) != len(options):
+                    merged = {k: v for k, v in node.items() if k != "anyOf"}
+                    merged.update(kept[0])
+                    node = merged
+            if isinstance(node, dict):
+                if node.get("default", 0) is None:
+                    node = {k: v for k, v in node.items() if k != "default"}
+                return {k: strip_null(v) for k, v in node.items()}
+        if isinstance(node, list):
+            return [strip_null(item) for item in node]
+        return node
+
+    schema = strip_null(Build.model_json_schema(by_alias=True))
+    assert isinstance(schema, dict)
+    schema["$schema"] = "https://json-schema.org/draft/2020-12/schema"
+    schema["title"] = "firstride build file"
+    return schema
