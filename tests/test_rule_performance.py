@@ -12,7 +12,8 @@ import pytest
 from firstride_rules.performance.hill import RULE
 
 from reviewer.findings import Finding, Severity, Source
-from reviewer.profile import Limit, load_profile
+from reviewer.profile import Limit
+from reviewer.session import default_profile
 from reviewer.testing import rule_outputs, run_rule_on, variant
 from reviewer.units import quantity
 
@@ -89,7 +90,7 @@ def test_road_load_check_value_through_the_rule() -> None:
     # domain brief check value (road-load equation, ISA, CGPM): 100 kg, Crr 0.01, CdA 0.6 m^2,
     # 25 km/h on the flat takes 27.53 N; through 5:1 at 90 % on 0.1 m that is
     # 27.53 x 0.1 / 4.5 / Kt + 1 A = 7.41 A
-    profile = load_profile()
+    profile = default_profile()
     key = "performance.hill.climb_speed"
     limits = {**profile.limits, key: Limit(key, quantity(25, "km/h"), Source("test profile"))}
     data = kart(usage={"rolling_resistance": 0.01, "drag_area": "0.6 m^2", "steepest_grade": "0 %"})

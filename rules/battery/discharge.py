@@ -8,10 +8,11 @@ import math
 from collections.abc import Iterator
 from dataclasses import dataclass
 
+from firstride_rules._shared.wording import STALL_SOURCE, small_loads
 from firstride_rules.battery._cells import CELL_LIMITS
 from firstride_rules.battery._cells import EPSILON as _EPSILON
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Battery, Build
 from reviewer.engineering.cells import (
     air_transport_class,
@@ -23,9 +24,9 @@ from reviewer.engineering.cells import (
 from reviewer.findings import Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
-from reviewer.units import format_number, quantity
+from reviewer.units import format_number, in_unit, quantity
 
-STALL = derived.STALL_SOURCE
+STALL = STALL_SOURCE
 CAPABILITY = Source.common_practice(
     "Pack continuous current = the cell's continuous current (or C-rate x capacity) x the "
     "strings in parallel"
@@ -55,8 +56,8 @@ class _Demand:
 def _motor_demand(build: Build) -> _Demand:
     if not build.motors:
         return _Demand(None, "", False, ("motors",))
-    limit = derived.current_limit(build)
-    loop = derived.stall_loop(build)
+    limit = figures.current_limit(build)
+    loop = figures.stall_loop(build)
     count = len(build.motors)
     motors = f"{count} motors" if count > 1 else "the motor"
     if limit is None:
@@ -82,9 +83,9 @@ def _motor_demand(build: Build) -> _Demand:
 def _string_capability(battery: Battery) -> tuple[float | None, str]:
     """One string's continuous current in A and the basis, in words."""
     rated = battery.cell_continuous_current
-    rated_a = derived.in_unit(rated, "A") if rated is not None else None
+    rated_a = in_unit(rated, "A") if rated is not None else None
     capacity = battery.cell_capacity
-    capacity_ah = derived.in_unit(capacity, "mAh") / 1000 if capacity is not None else None
+    capacity_ah = in_unit(capacity, "mAh") / 1000 if capacity is not None else None
     string_a = string_continuous_current(rated_a, battery.cell_c_rate, capacity_ah)
     by_rate = ""
     if battery.cell_c_rate is not None and capacity_ah is not None:
@@ -106,8 +107,8 @@ def _capability_missing(battery: Battery) -> tuple[str, ...]:
 
 
 def _pack_figures(battery: Battery) -> Iterator[DerivedFigure]:
-    cell = derived.cell_voltages(battery)
-    volts = derived.pack_voltages(battery)
+    cell = figures.cell_voltages(battery)
+    volts = figures.pack_voltages(battery)
     series = battery.cells_series
     yield DerivedFigure(
         "pack nominal voltage",
@@ -123,7 +124,7 @@ def _pack_figures(battery: Battery) -> Iterator[DerivedFigure]:
     )
     if battery.cell_capacity is None:
         return
-    capacity_ah = derived.in_unit(battery.cell_capacity, "mAh") / 1000
+    capacity_ah = in_unit(battery.cell_capacity, "mAh") / 1000
     parallel = battery.cells_parallel
     energy = pack_energy_wh(cell.nominal, series, capacity_ah, parallel)
     yield DerivedFigure(
@@ -190,7 +191,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     yield from _pack_figures(battery)
     string_a, basis = _string_capability(battery)
     demand = _motor_demand(build)
-    aux = derived.auxiliary_current(build)
+    aux = figures.auxiliary_current(build)
     missing = (*(_capability_missing(battery) if string_a is None else ()), *demand.missing)
     if missing or string_a is None or demand.current is None:
         yield Finding(
@@ -209,7 +210,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         "pack continuous current", quantity(capability, "A"), f"{basis}, x {parallel}", order=15
     )
     yield DerivedFigure("peak drive current", quantity(total, "A"), demand.how, order=16)
-    loads = f", plus the {', '.join(aux.parts)}" if aux.parts else ""
+    loads = f", plus the {small_loads(aux)}" if aux.parts else ""
     unknown = f" ({', '.join(aux.missing)} not given, not counted)" if aux.missing else ""
     strings = f"{parallel} parallel strings deliver" if parallel > 1 else "single string delivers"
     text = (
@@ -231,8 +232,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         (
             f
             for f in build.fuses
-            if f.location == BATTERY_POSITIVE
-            and derived.in_unit(f.rating, "A") <= capability + _EPSILON
+            if f.location == BATTERY_POSITIVE and in_unit(f.rating, "A") <= capability + _EPSILON
         ),
         None,
     )

@@ -9,13 +9,13 @@ from collections.abc import Iterator
 from firstride_rules.battery._cells import CELL_LIMITS
 from firstride_rules.battery._cells import EPSILON as _EPSILON
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Battery, Build
 from reviewer.engineering.cells import CellVoltages
 from reviewer.findings import Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
-from reviewer.units import format_number, quantity
+from reviewer.units import format_number, in_unit, quantity
 
 CELL_PROTECTION = Source.from_memory(
     "UL 2272 and UL 2849 evaluate a personal e-mobility battery's protection against "
@@ -83,7 +83,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             sources=(CELL_LIMITS,),
         )
         return
-    cell = derived.cell_voltages(battery)
+    cell = figures.cell_voltages(battery)
     series = battery.cells_series
     yield DerivedFigure(
         "pack cut-off voltage",
@@ -150,7 +150,7 @@ def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
             missing=("battery.low_voltage_cutoff",),
             sources=(CELL_LIMITS,),
         )
-    volts = derived.in_unit(setting, "V")
+    volts = in_unit(setting, "V")
     text = (
         f"The cut-off is set at {_n(volts)} V, {_n(volts / series)} V per cell; "
         f"{_chemistry(battery)} cells stop at {_n(cell.cutoff)} V ({_n(required)} V for "
@@ -193,8 +193,8 @@ def _charger_finding(battery: Battery, cell: CellVoltages, profile: Profile) -> 
             sources=(CELL_LIMITS,),
         )
     tolerance = profile.limit("battery.charger_tolerance_per_cell")
-    band = derived.in_unit(tolerance.quantity, "V") * series
-    volts = derived.in_unit(battery.charger_voltage, "V")
+    band = in_unit(tolerance.quantity, "V") * series
+    volts = in_unit(battery.charger_voltage, "V")
     text = (
         f"The charger ends at {_n(volts)} V, {_n(volts / series)} V per cell; a full "
         f"{_chemistry(battery)} cell is {_n(cell.full)} V ({_n(full)} V for {series} in "

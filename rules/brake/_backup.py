@@ -4,11 +4,11 @@ a vehicle with no brake at all, and the friction brake a fading brake needs besi
 
 from __future__ import annotations
 
-from reviewer import derived
 from reviewer import units as u
 from reviewer.build import Brake
 from reviewer.findings import Finding, Severity, Source, SourceStatus
 from reviewer.profile import Profile
+from reviewer.units import in_unit
 
 FADES = Source(
     "Physics of dynamic braking: current and torque are proportional to speed and vanish as "
@@ -25,7 +25,7 @@ _MS2 = u.unit("m/s**2")
 def no_brake_finding(brake: Brake, profile: Profile) -> Finding:
     """brake.kind none: nothing slows, stops or holds the vehicle."""
     minimum = profile.limit("brake.minimum_deceleration")
-    deceleration = derived.in_unit(minimum.quantity, _MS2)
+    deceleration = in_unit(minimum.quantity, _MS2)
     text = (
         "The vehicle has no brake (brake.kind none): nothing but rolling resistance and drag "
         "slows it, and nothing stops it or holds it on a slope."

@@ -1,7 +1,7 @@
 """brake.dynamic, part two: each motor's braking loop, the force it gives per unit of speed, and
 the remedies worked out on those loops (each re-checked before it is named).
 
-Everything here works in SI floats on the drive model of ``reviewer.derived``.
+Everything here works in SI floats on the drive model of ``reviewer.figures``.
 """
 
 from __future__ import annotations
@@ -9,13 +9,14 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from reviewer import derived
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Brake, Build, Circuit, Motor
 from reviewer.engineering.braking import added_resistance_for, braking_force_per_speed
 from reviewer.engineering.roadload import Drive, ms_to_kmh
+from reviewer.units import in_unit
 
-_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
+_in = in_unit  # skips pint's conversion for fields already in the unit asked
 _OHM = u.unit("ohm")
 
 
@@ -43,7 +44,7 @@ def braking_loops(build: Build, brake: Brake, drive: Drive) -> list[BrakingLoop]
     for motor, line in zip(build.motors, drive.motors, strict=True):
         assert motor.winding_resistance is not None
         wires = sum(
-            derived.wire_resistance(wire)
+            figures.wire_resistance(wire)
             for wire in build.wires
             if wire.circuit is Circuit.BRAKE
             and (wire.motor == motor.name or (single and wire.motor is None))

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
+from firstride_rules._shared.wording import drive_model
 from firstride_rules.brake._backup import (
     FADES,
     TO_STANDSTILL,
@@ -25,7 +26,6 @@ from firstride_rules.brake._loops import (
     share_remedy,
 )
 
-from reviewer import derived
 from reviewer import units as u
 from reviewer.build import Brake, BrakeKind, Build, Circuit, Rider
 from reviewer.engineering.braking import (
@@ -46,6 +46,7 @@ from reviewer.findings import (
 )
 from reviewer.profile import Limit, Profile
 from reviewer.rule import Output, Rule
+from reviewer.units import in_unit
 
 GENERATOR = Source.from_memory(
     "Chapman, Electric Machinery Fundamentals: a shorted DC machine generates E = Ke w, "
@@ -66,7 +67,7 @@ FLAT = Source(
     "g 9.80665 m/s^2 (CGPM)"
 )
 
-_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
+_in = in_unit  # skips pint's conversion for fields already in the unit asked
 _A = u.unit("A")
 _KG = u.unit("kg")
 _KMH = u.unit("km/h")
@@ -144,7 +145,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
 
 def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
-    drive, notes, missing = derived.drive_model(build, profile)
+    drive, notes, missing = drive_model(build, profile)
     lacking = list(missing)
     if not build.riders:
         lacking.insert(0, "riders")

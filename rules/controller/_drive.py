@@ -10,7 +10,7 @@ from dataclasses import dataclass
 
 import pint
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Build, MotorType
 from reviewer.findings import Source
 from reviewer.profile import Limit
@@ -32,12 +32,12 @@ class Stall:
     motor: str
 
 
-def _stall_loop(build: Build) -> derived.StallLoop | None:
-    return derived.stall_loop(build)  # remembered there for the next rule on the same build
+def _stall_loop(build: Build) -> figures.StallLoop | None:
+    return figures.stall_loop(build)  # remembered there for the next rule on the same build
 
 
 def current_limit(build: Build) -> float | None:
-    """The per-motor current limit in A (as ``derived.current_limit``, without pint's
+    """The per-motor current limit in A (as ``figures.current_limit``, without pint's
     conversion when the field is already in amperes)."""
     if build.controller is None or build.controller.current_limit is None:
         return None
@@ -96,7 +96,7 @@ def magnitude(value: pint.Quantity, unit: pint.Unit) -> float:
 
 def ambient(build: Build, default: Limit) -> float:
     """The build's ambient temperature in degC, else the profile default (as
-    ``derived.ambient_temperature``, without pint's conversion)."""
+    ``figures.ambient_temperature``, without pint's conversion)."""
     given = build.usage.ambient_temperature
     return magnitude(given if given is not None else default.quantity, _DEGC)
 

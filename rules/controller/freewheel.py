@@ -6,6 +6,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
+from firstride_rules._shared import voltage_rating as ratings
 from firstride_rules.controller._drive import (
     STALL,
     ceil_whole,
@@ -16,7 +17,6 @@ from firstride_rules.controller._drive import (
     worst_stall,
 )
 
-from reviewer import ratings
 from reviewer import units as u
 from reviewer.build import Build, Controller, MotorType
 from reviewer.engineering.switching import worst_freewheel_average_current

@@ -22,7 +22,7 @@ from firstride_rules.controller._drive import (
     ambient as ambient_temperature,
 )
 
-from reviewer import derived
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Controller
 from reviewer.engineering.switching import (
@@ -161,7 +161,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         current=current,
         limited=limit is not None,
         duty=duty,
-        voltage=derived.pack_voltages(build.battery).full,
+        voltage=figures.pack_voltages(build.battery).full,
         ambient=ambient,
         hot_factor=hot_factor,
         target=switch.max_junction - magnitude(margin_limit.quantity, _K),

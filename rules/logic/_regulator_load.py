@@ -8,7 +8,7 @@ from __future__ import annotations
 import math
 from collections.abc import Generator
 
-from reviewer import derived
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Logic, Regulator
 from reviewer.engineering.regulator import (
@@ -21,8 +21,9 @@ from reviewer.engineering.regulator import (
 )
 from reviewer.findings import Assumption
 from reviewer.profile import Profile
+from reviewer.units import in_unit
 
-_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
+_in = in_unit  # skips pint's conversion for fields already in the unit asked
 _MA = u.unit("mA")
 _V = u.unit("V")
 _DEGC = u.unit("degC")
@@ -101,7 +102,7 @@ def heat_defaults(
             limit.source,
         )
     default = profile.limit("usage.default_ambient_temperature")
-    ambient = derived.ambient_temperature(build, _in(default.quantity, _DEGC))
+    ambient = figures.ambient_temperature(build, _in(default.quantity, _DEGC))
     if build.usage.ambient_temperature is None:
         yield Assumption(
             f"Ambient temperature not given: {u.format_number(ambient)} °C taken for the "

@@ -3,9 +3,18 @@ datasheet limits, and inductive loads switched from logic."""
 
 from __future__ import annotations
 
-import math
 from collections.abc import Iterator
-from dataclasses import dataclass, field
+
+from firstride_rules.logic._tally import (
+    Tally,
+    grade,
+    ma,
+    number,
+    over_by,
+    pin_tallies,
+    pins_of,
+    quoted,
+)
 
 from reviewer.build import Build, Logic, PinLoad
 from reviewer.engineering.pins import (
@@ -47,15 +56,6 @@ COIL_REMEDY = (
     "across the coil"
 )
 SWITCH_REMEDY = "drive it through a logic-level MOSFET or NPN transistor"
-
-
-@dataclass
-class _Tally:
-    """Current on one pin: worst case (with imbalance), even share, and the loads on it."""
-
-    worst: float = 0.0
-    even: float = 0.0
-    loads: list[str] = field(default_factory=list)
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -102,11 +102,11 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             missing=("logic.loads", *missing_limits),
         )
         return
-    pin_fraction = _number(profile.limit("logic.pin_current_fraction"))
-    total_fraction = _number(profile.limit("logic.total_current_fraction"))
+    pin_fraction = number(profile.limit("logic.pin_current_fraction"))
+    total_fraction = number(profile.limit("logic.total_current_fraction"))
     imbalance_limit = profile.limit("logic.parallel_pin_imbalance")
-    imbalance = _number(imbalance_limit)
-    gain = _number(profile.limit("logic.transistor_forced_gain"))
+    imbalance = number(imbalance_limit)
+    gain = number(profile.limit("logic.transistor_forced_gain"))
 
     drawn: dict[str, float] = {}
     for load in logic.loads:
@@ -116,7 +116,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     for load in logic.loads:
         yield _load_finding(load, drawn[load.name], imbalance, imbalance_limit)
 
-    tallies = _pin_tallies(logic, drawn, imbalance)
+    tallies = pin_tallies(logic, drawn, imbalance)
     yield from _pin_findings(logic, tallies, pin_fraction, profile, imbalance)
     yield from _group_findings(logic, drawn, imbalance, total_fraction, profile)
     yield from _total_finding(logic, drawn, total_fraction, profile)
@@ -129,32 +129,6 @@ def _missing_limits(logic: Logic | None) -> tuple[str, ...]:
     if logic is None or logic.total_current_max is None:
         names.append("logic.total_current_max")
     return tuple(names)
-
-
-def _number(limit: Limit) -> float:
-    value = limit.value
-    if isinstance(value, bool | str):
-        raise TypeError(f"profile limit {limit.key} must be a number")
-    if isinstance(value, float | int):
-        return float(value)
-    return float(value.m_as("dimensionless"))
-
-
-def _mA(value: float) -> str:
-    return f"{format_number(value)} mA"
-
-
-def _excess(measured: float, allowed: float) -> int:
-    """Whole milliamps to move so the measured current comes within the allowed one."""
-    return max(1, math.ceil(round(measured - allowed, 6)))
-
-
-def _names(loads: list[str]) -> str:
-    return ", ".join(f"'{name}'" for name in loads)
-
-
-def _pins(load: PinLoad) -> list[str]:
-    return list(dict.fromkeys(load.pins))  # a pin named twice is still one pin
 
 
 def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
@@ -174,19 +148,19 @@ def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
 
 def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit: Limit) -> Finding:
     subject = f"load '{load.name}'"
-    pins = _pins(load)
+    pins = pins_of(load)
     current = in_unit(load.current, MA)
     issues: list[tuple[Severity, str]] = []
     remedies: list[str] = []
     sources: list[Source] = []
-    diode_rating = f"rated for at least {_mA(current)} and the coil's supply voltage"
+    diode_rating = f"rated for at least {ma(current)} and the coil's supply voltage"
     if load.inductive and load.flyback_diode is not True:
         stated = "is not stated" if load.flyback_diode is None else "is absent"
         issues.append(
             (
                 Severity.STOP,
                 f"It is inductive and its flyback diode {stated}: at turn-off the coil's "
-                f"{_mA(current)} has no path and its voltage spikes onto the {load.driver}.",
+                f"{ma(current)} has no path and its voltage spikes onto the {load.driver}.",
             )
         )
         sources += [INDUCTIVE_KICK, FLYBACK_PRACTICE]
@@ -205,8 +179,8 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
             (
                 Severity.ADVISE,
                 f"It is shared over {len(pins)} paralleled pins ({', '.join(pins)}), which do "
-                f"not share evenly: one pin may carry {_mA(worst)} rather than the even "
-                f"{_mA(share)}.",
+                f"not share evenly: one pin may carry {ma(worst)} rather than the even "
+                f"{ma(share)}.",
             )
         )
         if not (load.inductive and load.driver == "pin"):
@@ -216,7 +190,7 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
         return Finding(
             severity=Severity.PASS,
             subject=subject,
-            rationale=f"{_mA(current)} load driven by {_driver_words(load)} on "
+            rationale=f"{ma(current)} load driven by {_driver_words(load)} on "
             f"{', '.join(pins)}{'; flyback diode fitted' if load.inductive else ''}.",
             measured=quantity(drawn, MA),
             sources=(DATASHEET,),
@@ -225,7 +199,7 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
     return Finding(
         severity=severity,
         subject=subject,
-        rationale=f"{_mA(current)} load driven by {_driver_words(load)}. "
+        rationale=f"{ma(current)} load driven by {_driver_words(load)}. "
         + " ".join(text for _, text in issues),
         measured=quantity(drawn, MA),
         remedy="; ".join(remedies) or None,
@@ -242,30 +216,8 @@ def _driver_words(load: PinLoad) -> str:
     }[load.driver]
 
 
-def _pin_tallies(logic: Logic, drawn: dict[str, float], imbalance: float) -> dict[str, _Tally]:
-    tallies: dict[str, _Tally] = {}
-    for load in logic.loads:
-        pins = _pins(load)
-        worst = worst_pin_current(drawn[load.name], len(pins), imbalance)
-        share = even_share(drawn[load.name], len(pins))
-        for pin in pins:
-            tally = tallies.setdefault(pin, _Tally())
-            tally.worst += worst
-            tally.even += share
-            tally.loads.append(load.name)
-    return tallies
-
-
-def _grade(measured: float, maximum: float, allowed: float) -> Severity:
-    if measured > maximum:
-        return Severity.STOP
-    if measured > allowed:
-        return Severity.FIX
-    return Severity.PASS
-
-
 def _pin_findings(
-    logic: Logic, tallies: dict[str, _Tally], fraction: float, profile: Profile, imbalance: float
+    logic: Logic, tallies: dict[str, Tally], fraction: float, profile: Profile, imbalance: float
 ) -> Iterator[Finding]:
     if logic.pin_current_max is None:
         yield Finding(
@@ -280,24 +232,24 @@ def _pin_findings(
     allowed = allowed_current(maximum, fraction)
     sources = (DATASHEET, profile.limit("logic.pin_current_fraction").source)
     for pin, tally in tallies.items():
-        severity = _grade(tally.worst, maximum, allowed)
+        severity = grade(tally.worst, maximum, allowed)
         uneven = (
-            f" (even share {_mA(tally.even)}, x{format_number(imbalance)} for paralleled pins)"
+            f" (even share {ma(tally.even)}, x{format_number(imbalance)} for paralleled pins)"
             if tally.worst > tally.even
             else ""
         )
         rationale = (
-            f"Pin {pin} carries up to {_mA(tally.worst)}{uneven} for "
-            f"{_names(tally.loads)}; the datasheet maximum is "
-            f"{_mA(maximum)} and the profile keeps pins at or below "
-            f"{format_number(fraction * 100)} % of it, {_mA(allowed)}."
+            f"Pin {pin} carries up to {ma(tally.worst)}{uneven} for "
+            f"{quoted(tally.loads)}; the datasheet maximum is "
+            f"{ma(maximum)} and the profile keeps pins at or below "
+            f"{format_number(fraction * 100)} % of it, {ma(allowed)}."
         )
         remedy = None
         if severity is not Severity.PASS:
-            excess = _excess(tally.worst, allowed)
+            excess = over_by(tally.worst, allowed)
             remedy = (
-                f"keep each pin at or below {_mA(allowed)}: move {excess} mA off pin {pin}, "
-                f"e.g. drive {_names(tally.loads)} through a logic-level MOSFET or NPN "
+                f"keep each pin at or below {ma(allowed)}: move {excess} mA off pin {pin}, "
+                f"e.g. drive {quoted(tally.loads)} through a logic-level MOSFET or NPN "
                 "transistor"
             )
         yield Finding(
@@ -320,26 +272,26 @@ def _group_findings(
         members = set(group.pins)
         current = 0.0
         for load in logic.loads:
-            pins = _pins(load)
+            pins = pins_of(load)
             inside = sum(1 for pin in pins if pin in members)
             current += worst_group_current(drawn[load.name], inside, len(pins), imbalance)
         maximum = in_unit(group.current_max, MA)
         allowed = allowed_current(maximum, fraction)
-        severity = _grade(current, maximum, allowed)
+        severity = grade(current, maximum, allowed)
         remedy = None
         if severity is not Severity.PASS:
             remedy = (
-                f"move {_excess(current, allowed)} mA off port group {group.name} "
-                f"(keep it at or below {_mA(allowed)}), e.g. onto another group or through "
+                f"move {over_by(current, allowed)} mA off port group {group.name} "
+                f"(keep it at or below {ma(allowed)}), e.g. onto another group or through "
                 "a transistor or MOSFET driver"
             )
         yield Finding(
             severity=severity,
             subject=f"port group {group.name}",
-            rationale=f"Port group {group.name} carries up to {_mA(current)}, counting "
+            rationale=f"Port group {group.name} carries up to {ma(current)}, counting "
             f"uneven sharing of loads split across groups; its datasheet maximum is "
-            f"{_mA(maximum)} and the profile allows {format_number(fraction * 100)} % of it, "
-            f"{_mA(allowed)}.",
+            f"{ma(maximum)} and the profile allows {format_number(fraction * 100)} % of it, "
+            f"{ma(allowed)}.",
             measured=quantity(current, MA),
             limit=quantity(allowed, MA),
             remedy=remedy,
@@ -356,7 +308,7 @@ def _total_finding(
         yield Finding(
             severity=Severity.UNASSESSED,
             subject="package total",
-            rationale=f"The loads draw {_mA(total)} from the part's pins in all, but its "
+            rationale=f"The loads draw {ma(total)} from the part's pins in all, but its "
             "total (package) maximum current is not given.",
             sources=(DATASHEET,),
             missing=("logic.total_current_max",),
@@ -364,19 +316,19 @@ def _total_finding(
         return
     maximum = in_unit(logic.total_current_max, MA)
     allowed = allowed_current(maximum, fraction)
-    severity = _grade(total, maximum, allowed)
+    severity = grade(total, maximum, allowed)
     remedy = None
     if severity is not Severity.PASS:
         remedy = (
-            f"move {_excess(total, allowed)} mA of load off the part's pins (keep the "
-            f"package at or below {_mA(allowed)}): {SWITCH_REMEDY}"
+            f"move {over_by(total, allowed)} mA of load off the part's pins (keep the "
+            f"package at or below {ma(allowed)}): {SWITCH_REMEDY}"
         )
     yield Finding(
         severity=severity,
         subject="package total",
-        rationale=f"The loads draw {_mA(total)} from the part's pins in all; its datasheet "
-        f"maximum is {_mA(maximum)} and the profile allows {format_number(fraction * 100)} % "
-        f"of it, {_mA(allowed)}.",
+        rationale=f"The loads draw {ma(total)} from the part's pins in all; its datasheet "
+        f"maximum is {ma(maximum)} and the profile allows {format_number(fraction * 100)} % "
+        f"of it, {ma(allowed)}.",
         measured=quantity(total, MA),
         limit=quantity(allowed, MA),
         remedy=remedy,

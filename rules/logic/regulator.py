@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections.abc import Generator, Iterator
 from dataclasses import dataclass
 
+from firstride_rules._shared import voltage_rating as ratings
 from firstride_rules.logic._regulator_load import (
     heat_defaults,
     heat_remedy,
@@ -18,7 +19,7 @@ from firstride_rules.logic._regulator_load import (
     output_voltage,
 )
 
-from reviewer import derived, ratings
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Logic, Regulator
 from reviewer.engineering.regulator import (
@@ -38,6 +39,7 @@ from reviewer.findings import (
 )
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
+from reviewer.units import in_unit
 
 LINEAR_LOSS = Source.from_memory(
     "Linear regulator dissipation P = (Vin - Vout) I_out + Vin I_q (Horowitz and Hill, The Art "
@@ -56,7 +58,7 @@ OVERVOLTAGE = Source.common_practice(
     "pack voltage on the logic rail"
 )
 
-_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
+_in = in_unit  # skips pint's conversion for fields already in the unit asked
 _MA = u.unit("mA")
 _V = u.unit("V")
 _W = u.unit("W")
@@ -149,11 +151,11 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
 def _supply(build: Build, regulator: Regulator) -> _Supply | Finding:
     if not regulator.fed_from_pack and regulator.input_voltage is not None:
-        volts = derived.in_unit(regulator.input_voltage, "V")
+        volts = in_unit(regulator.input_voltage, "V")
         rated = regulator.input_max
         rating = ratings.VoltageRating(
             "logic.regulator.input_max",
-            None if rated is None else derived.in_unit(rated, "V"),
+            None if rated is None else in_unit(rated, "V"),
             volts,
             volts,
             "the separate supply it is fed from",
@@ -179,7 +181,7 @@ def _supply(build: Build, regulator: Regulator) -> _Supply | Finding:
         )
     rating = ratings.regulator_input_rating(build)
     assert rating is not None  # fed from the pack, which is described
-    return _Supply(rating.sees, rating, derived.pack_voltages(build.battery).cutoff)
+    return _Supply(rating.sees, rating, figures.pack_voltages(build.battery).cutoff)
 
 
 def _input_finding(supply: _Supply, estimate: str = "") -> Finding:

@@ -9,7 +9,7 @@ from dataclasses import dataclass
 
 import pint
 
-from reviewer import derived
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Motor
 from reviewer.engineering.motor import copper_loss, input_power
@@ -61,7 +61,7 @@ class _Load:
     stall_series_resistance: float | None = None  # None: current-limited; else stall feed
 
 
-def _stall_load(loop: derived.StallLoop, motor: Motor) -> _Load:
+def _stall_load(loop: figures.StallLoop, motor: Motor) -> _Load:
     """A locked rotor fed from the full pack: its own wires and switch in series, and the shared
     path counted once per motor (exact when identical motors stall together)."""
     assert motor.winding_resistance is not None
@@ -123,16 +123,16 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         )
         return
     default_ambient = profile.limit("usage.default_ambient_temperature")
-    ambient = derived.ambient_temperature(build, _in(default_ambient.quantity, _DEGC))
+    ambient = figures.ambient_temperature(build, _in(default_ambient.quantity, _DEGC))
     if build.usage.ambient_temperature is None:
         yield Assumption(
             f"Ambient temperature not given: {u.format_number(ambient)} °C taken for the motor "
             "heating check.",
             default_ambient.source,
         )
-    limit = derived.current_limit(build)
-    loop = derived.stall_loop(build) if limit is None else None
-    pack_voltage = derived.pack_voltages(build.battery).nominal if build.battery else None
+    limit = figures.current_limit(build)
+    loop = figures.stall_loop(build) if limit is None else None
+    pack_voltage = figures.pack_voltages(build.battery).nominal if build.battery else None
     if limit is None:
         yield Assumption(
             "No controller current limit: each motor is checked stalled on the full pack "

@@ -11,15 +11,16 @@ from __future__ import annotations
 from collections.abc import Generator, Iterator
 from dataclasses import replace
 
+from firstride_rules._shared.wording import drive_model
 from firstride_rules.performance._climb import Climb, heat_remedy, stall_remedy, steepest_grade
 
-from reviewer import derived
 from reviewer import units as u
 from reviewer.build import Build, Rider
 from reviewer.engineering.roadload import AIR_DENSITY_ISA, Drive, kmh_to_ms, ms_to_kmh
 from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Limit, Profile
 from reviewer.rule import Output, Rule
+from reviewer.units import in_unit
 
 ROAD_LOAD = Source(
     "Road load on a grade F = m g (Crr cos(theta) + sin(theta)) + 0.5 rho CdA v^2; "
@@ -34,7 +35,7 @@ COPPER_LOSS = Source.from_memory(
     "rated rise (IEC 60034-1 rating basis)"
 )
 
-_in = derived.in_unit  # skips pint's conversion for fields already in the unit asked
+_in = in_unit  # skips pint's conversion for fields already in the unit asked
 _A = u.unit("A")
 _KG = u.unit("kg")
 _KMH = u.unit("km/h")
@@ -77,7 +78,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     would climb it, each re-checked with the same model; for heat, the gearing that brings the
     climb current within the rated current.
     """
-    drive, _, missing = derived.drive_model(build, profile)
+    drive, _, missing = drive_model(build, profile)
     lacking = list(missing)
     if not build.riders:
         lacking.insert(0, "riders")

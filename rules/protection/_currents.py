@@ -14,14 +14,15 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from functools import partial
 
+from firstride_rules._shared.wording import small_loads
 from firstride_rules.wiring._findings import THIN_WIRE
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Build, Circuit, Fuse, Wire
 from reviewer.engineering.conductors import Ampacity, awg_label
 from reviewer.engineering.fuses import small_conductor_limit
 from reviewer.findings import Source, SourceStatus
-from reviewer.units import format_number
+from reviewer.units import format_number, in_unit
 
 THINNER_CEILING = Source(
     "NEC 240.4(D) ceilings rise with size (7 A for 18 AWG up to 30 A for 10 AWG), so a wire "
@@ -47,14 +48,14 @@ class Design:
 def design_current(build: Build) -> Design:
     """Per motor the controller's current limit, else its rated continuous current (a stall is
     a fault, not service), plus the logic board and brake relay coil."""
-    limit = derived.current_limit(build)
-    aux = derived.auxiliary_current(build)
+    limit = figures.current_limit(build)
+    aux = figures.auxiliary_current(build)
     amps, missing = aux.current, list(aux.missing)
     for index, motor in enumerate(build.motors):
         if limit is not None:
             amps += limit
         elif motor.rated_current is not None:
-            amps += derived.in_unit(motor.rated_current, "A")
+            amps += in_unit(motor.rated_current, "A")
         else:
             missing.append(f"motors[{index}].rated_current")
     if limit is None and len(missing) > len(aux.missing):
@@ -67,7 +68,7 @@ def design_current(build: Build) -> Design:
     else:
         how = "the motors' rated continuous current, as the controller sets no limit"
     if aux.parts:
-        how += f", plus the {', '.join(aux.parts)}"
+        how += f", plus the {small_loads(aux)}"
     return Design(amps, how, tuple(missing))
 
 
@@ -79,7 +80,7 @@ def protected_wires(build: Build, fuse: Fuse | None) -> list[tuple[int, Wire]]:
     if fuse is not None and fuse.protects:
         return [(i, w) for i, w in enumerate(build.wires) if w.name in fuse.protects]
     circuits = {Circuit.BATTERY}
-    if derived.current_limit(build) is None:
+    if figures.current_limit(build) is None:
         circuits.add(Circuit.MOTOR)
     return [(i, w) for i, w in enumerate(build.wires) if w.circuit in circuits]
 
@@ -133,7 +134,7 @@ def _bound_basis(wire: Wire, awg: int, bound: Ampacity, ambient: float) -> str:
         loaded = wire.bundled_with + 1
         corrections += f", x{bound.bundling_factor:.2f} for {loaded} loaded conductors"
     assert wire.temperature_rating is not None
-    rating = derived.in_unit(wire.temperature_rating, "degC")
+    rating = in_unit(wire.temperature_rating, "degC")
     return (
         f"no table rates a wire this thin ({awg_label(awg)}) at {_n(rating)} °C, and it carries "
         f"at most {_n(bound.current)} A, an upper bound from the smallest size tabulated "
@@ -149,23 +150,23 @@ def wire_capacity(wires: list[tuple[int, Wire]], ambient: float) -> Capacity:
     missing: list[str] = [] if wires else ["wires"]
     unrated: list[str] = []
     for index, wire in wires:
-        awg = derived.wire_awg(wire)
-        figures: list[tuple[float, Callable[[], str], tuple[Source, ...]]] = []
-        ampacity = derived.wire_ampacity(wire, ambient)
+        awg = figures.wire_awg(wire)
+        bounds: list[tuple[float, Callable[[], str], tuple[Source, ...]]] = []
+        ampacity = figures.wire_ampacity(wire, ambient)
         if ampacity is not None:
-            figures.append((ampacity.current, partial(_ampacity_basis, ampacity), ()))
+            bounds.append((ampacity.current, partial(_ampacity_basis, ampacity), ()))
         else:
             field = "temperature_rating" if wire.temperature_rating is None else "rated_ampacity"
             missing.append(f"wires[{index}].{field}")
             unrated.append(wire.name)
-            bound = derived.wire_ampacity_bound(wire, ambient)
+            bound = figures.wire_ampacity_bound(wire, ambient)
             if bound is not None:
                 words = partial(_bound_basis, wire, awg, bound, ambient)
-                figures.append((bound.current, words, (THIN_WIRE,)))
+                bounds.append((bound.current, words, (THIN_WIRE,)))
         ceiling = _ceiling(awg)
         if ceiling is not None:
-            figures.append(ceiling)
-        for allowed, words, sources in figures:
+            bounds.append(ceiling)
+        for allowed, words, sources in bounds:
             if best is None or allowed < best[0]:
                 best = (allowed, words, sources, wire.name)
     if best is None:

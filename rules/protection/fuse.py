@@ -13,6 +13,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
+from firstride_rules._shared import voltage_rating as ratings
 from firstride_rules.protection._currents import (
     THIN_WIRE,
     THINNER_CEILING,
@@ -23,7 +24,7 @@ from firstride_rules.protection._currents import (
     wire_capacity,
 )
 
-from reviewer import derived, ratings
+from reviewer import figures
 from reviewer.build import Build, Fuse
 from reviewer.engineering.fuses import (
     prospective_fault_current,
@@ -33,7 +34,7 @@ from reviewer.engineering.fuses import (
 from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
-from reviewer.units import format_number, quantity
+from reviewer.units import format_number, in_unit, quantity
 
 COORDINATION = Source(
     "IEC 60364-4-43 clause 433.1: design current <= fuse rating <= conductor capacity "
@@ -74,9 +75,9 @@ class _Fault:
 
 
 def _fault(build: Build, full: float) -> _Fault:
-    loop = sum(derived.wire_resistance(w) for w in derived.shared_wires(build))
+    loop = sum(figures.wire_resistance(w) for w in figures.shared_wires(build))
     assert build.battery is not None
-    source = derived.pack_resistance(build.battery)
+    source = figures.pack_resistance(build.battery)
     if source is None and loop <= 0:
         return _Fault(None, None, loop)
     return _Fault(prospective_fault_current(full, source or 0.0, loop), source, loop)
@@ -112,8 +113,8 @@ def _window(build: Build, design: Design, capacity: Capacity) -> str:
         f"{_n(capacity.current)} A wire '{capacity.wire}' may be protected at: use wire there "
         f"that may be protected at {low} A or more"
     )
-    limit = derived.current_limit(build)
-    aux = derived.auxiliary_current(build).current
+    limit = figures.current_limit(build)
+    aux = figures.auxiliary_current(build).current
     if limit is not None and build.motors:
         per_motor = math.floor((capacity.current - aux) / len(build.motors) + _EPSILON)
         if per_motor >= 1:
@@ -125,7 +126,7 @@ def _window(build: Build, design: Design, capacity: Capacity) -> str:
 def _missing_fuse(
     build: Build, full: float, design: Design, capacity: Capacity, fault: _Fault
 ) -> Finding:
-    unlimited = derived.current_limit(build) is None
+    unlimited = figures.current_limit(build) is None
     text = (
         "No fuse or breaker is on the pack's positive lead: a short anywhere after it draws "
         "the pack's fault current with nothing to break it"
@@ -153,7 +154,7 @@ def _missing_fuse(
 
 
 def _coordination(build: Build, fuse: Fuse, design: Design, capacity: Capacity) -> Finding:
-    rating = derived.in_unit(fuse.rating, "A")
+    rating = in_unit(fuse.rating, "A")
     subject = f"fuse '{fuse.name}' rating"
     text = f"Rated {_n(rating)} A; the design current is {_n(design.current)} A ({design.how})"
     if capacity.current is not None:
@@ -185,7 +186,7 @@ def _coordination(build: Build, fuse: Fuse, design: Design, capacity: Capacity) 
 
 
 def _maybe(amount: pint.Quantity | None, target: str) -> float | None:
-    return None if amount is None else derived.in_unit(amount, target)
+    return None if amount is None else in_unit(amount, target)
 
 
 def _interruption(
@@ -319,12 +320,12 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             sources=(SHORT_CIRCUIT,),
         )
         return
-    full = derived.pack_voltages(battery).full
+    full = figures.pack_voltages(battery).full
     if build.usage.ambient_temperature is not None:
-        ambient = derived.in_unit(build.usage.ambient_temperature, "degC")
+        ambient = in_unit(build.usage.ambient_temperature, "degC")
     else:
         default = profile.limit("usage.default_ambient_temperature")
-        ambient = derived.in_unit(default.quantity, "degC")
+        ambient = in_unit(default.quantity, "degC")
         yield Assumption(
             f"Ambient temperature not given: {_n(ambient)} °C taken for wires.", default.source
         )

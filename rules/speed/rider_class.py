@@ -6,8 +6,9 @@ from __future__ import annotations
 from collections.abc import Iterator
 
 import pint
+from firstride_rules._shared.wording import drive_model
 
-from reviewer import derived
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Rider, RiderClass
 from reviewer.engineering.motor import rad_s_to_rpm, torque_constant
@@ -91,7 +92,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     gives more wheel torque; a larger one can lower the top speed of a current-limited drive
     too, but at the cost of torque, so it is not offered.
     """
-    missing = derived.drive_model_missing(build)
+    missing = figures.drive_model_missing(build)
     if not build.riders:
         yield Finding(
             severity=Severity.UNASSESSED,
@@ -114,7 +115,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
                 sources=(MOTOR_MODEL, ROAD_LOAD),
             )
         return
-    drive, notes, _ = derived.drive_model(build, profile)
+    drive, notes, _ = drive_model(build, profile)
     assert drive is not None
     yield Assumption(
         "Top speed is solved on flat ground in still air at sea-level air density.", ROAD_LOAD

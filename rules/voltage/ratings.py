@@ -14,8 +14,10 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
+from firstride_rules._shared import voltage_rating as ratings
+from firstride_rules._shared.voltage_rating import VoltageRating, whole_volts_up
 
-from reviewer import derived, ratings
+from reviewer import figures
 from reviewer.build import Battery, Build, Controller
 from reviewer.findings import (
     Assumption,
@@ -27,9 +29,8 @@ from reviewer.findings import (
     SourceStatus,
 )
 from reviewer.profile import Profile
-from reviewer.ratings import VoltageRating, whole_volts_up
 from reviewer.rule import Output, Rule
-from reviewer.units import format_number, quantity
+from reviewer.units import format_number, in_unit, quantity
 
 CELL_LIMITS = Source.from_memory(
     "Linden, Handbook of Batteries: full charge 4.2 V per Li-ion or LiPo cell, 3.65 V LiFePO4"
@@ -75,7 +76,7 @@ def _judge(part: _Part) -> Finding:
 
 
 def _maybe(amount: pint.Quantity | None) -> float | None:
-    return None if amount is None else derived.in_unit(amount, "V")
+    return None if amount is None else in_unit(amount, "V")
 
 
 def _factor(profile: Profile, key: str) -> tuple[float, Source]:
@@ -155,7 +156,7 @@ def _motor_findings(
 ) -> Iterator[Finding]:
     advise, advise_source = _factor(profile, "voltage.motor_overvoltage.advise")
     fix, fix_source = _factor(profile, "voltage.motor_overvoltage.fix")
-    cell_full = derived.cell_voltages(battery).full
+    cell_full = figures.cell_voltages(battery).full
     for index, motor in enumerate(build.motors):
         subject = f"motor '{motor.name}'"
         if motor.rated_voltage is None:
@@ -168,7 +169,7 @@ def _motor_findings(
                 sources=(MOTOR_SPEED,),
             )
             continue
-        rated = derived.in_unit(motor.rated_voltage, "V")
+        rated = in_unit(motor.rated_voltage, "V")
         ratio = full / rated
         text = (
             f"The {_n(full)} V full pack is {ratio:.2f} x the motor's {_n(rated)} V rating, so it "
@@ -223,9 +224,10 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       - every motor (``motors[i].rated_voltage``): its speed scales with voltage, so full over
         rated is its overspeed ratio, within ``voltage.motor_overvoltage.advise`` (1.25).
 
-    The switch, diode, regulator and fuse ratings are judged by ``reviewer.derived``'s
-    ``VoltageRating``, which controller.freewheel, logic.regulator and protection.fuse use for
-    the same parts: one judgement, one severity, one wording of the limit.
+    The switch, diode, regulator and fuse ratings are judged by one shared ``VoltageRating``
+    (``firstride_rules._shared``), which controller.freewheel, logic.regulator and
+    protection.fuse use for the same parts: one judgement, one severity, one wording of the
+    limit.
 
     Severities
       - stop: a switch, diode, regulator, fuse or relay rated below the voltage it sees.
@@ -248,8 +250,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             sources=(CELL_LIMITS,),
         )
         return
-    full = derived.pack_voltages(battery).full
-    cell = derived.cell_voltages(battery)
+    full = figures.pack_voltages(battery).full
+    cell = figures.cell_voltages(battery)
     yield DerivedFigure(
         "pack full voltage",
         quantity(full, "V"),

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterator
 
+from firstride_rules._shared.wording import STALL_SOURCE
 from firstride_rules.wiring._calc import (
     WireVerdict,
     judge,
@@ -17,7 +18,7 @@ from firstride_rules.wiring._calc import (
 )
 from firstride_rules.wiring._model import Conductor, StallContext
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Build
 from reviewer.engineering.conductors import INSULATION_TEMPERATURES, Ampacity, awg_label
 from reviewer.findings import (
@@ -28,7 +29,7 @@ from reviewer.findings import (
     Source,
     SourceStatus,
 )
-from reviewer.units import Quantity, format_number, quantity
+from reviewer.units import Quantity, format_number, in_unit, quantity
 
 ADIABATIC = Source(
     "IEC 60364-4-43 clause 434.5.2, IEC 60364-5-54 Annex A: a conductor withstands I for "
@@ -39,7 +40,7 @@ GENERAL_K = Source(
     "k = 226 sqrt(ln(1 + (theta_f - theta_i)/(234.5 + theta_i)))"
 )
 PTFE_K = Source.from_memory("PTFE: general copper k from 200 °C to 300 °C (below its melt)")
-STALL = derived.STALL_SOURCE
+STALL = STALL_SOURCE
 NEC_TABLE = Source("NEC (NFPA 70) Table 310.16: copper, 30 °C ambient, up to 3 conductors")
 FAA_TABLE = Source("FAA AC 43.13-1B Table 11-9: copper wire in bundles, 70 °C ambient")
 DATASHEET = Source("the wire's datasheet ampacity, read as for 30 °C ambient", SourceStatus.USER)
@@ -223,7 +224,7 @@ def path_finding(ctx: StallContext, motor: str, wires: list[Conductor]) -> Findi
             missing=("wires",),
         )
     limit = ctx.profile.limit("wiring.voltage_drop.power")
-    allowed = derived.in_unit(limit.quantity, "percent") / 100
+    allowed = in_unit(limit.quantity, "percent") / 100
     volts, carried = path_drop(ctx, motor, path, wires, {})
     fraction = volts / ctx.nominal
     n = format_number
@@ -257,10 +258,10 @@ def path_finding(ctx: StallContext, motor: str, wires: list[Conductor]) -> Findi
     )
 
 
-def stall_figures(build: Build, loop: derived.StallLoop) -> Iterator[DerivedFigure]:
+def stall_figures(build: Build, loop: figures.StallLoop) -> Iterator[DerivedFigure]:
     battery = build.battery
     assert battery is not None
-    cell = derived.cell_voltages(battery)
+    cell = figures.cell_voltages(battery)
     volts = loop.voltage
     yield DerivedFigure(
         "pack full voltage",

@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from functools import cached_property
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Build, Circuit, Fuse, Wire
 from reviewer.engineering.conductors import (
     awg_for_area,
@@ -18,6 +18,7 @@ from reviewer.engineering.conductors import (
 )
 from reviewer.findings import Assumption, Source
 from reviewer.profile import Profile
+from reviewer.units import in_unit
 
 BATTERY_POSITIVE = "battery-positive"  # a fuse here is in series with every power wire
 
@@ -66,7 +67,7 @@ class StallContext:
     """The build's stall loop and protection in floats, and the assumptions made on the way."""
 
     profile: Profile
-    loop: derived.StallLoop
+    loop: figures.StallLoop
     nominal: float
     ambient: float
     limit: float | None
@@ -77,7 +78,7 @@ class StallContext:
     @cached_property
     def assumed_clearing(self) -> tuple[float, Source]:
         limit = self.profile.limit("wiring.assumed_clearing_time")
-        return derived.in_unit(limit.quantity, "s"), limit.source
+        return in_unit(limit.quantity, "s"), limit.source
 
     @cached_property
     def clearing_multiple(self) -> float:
@@ -99,7 +100,7 @@ class StallContext:
                     shared += delta
                 else:
                     branches[wire.motor] += delta
-        return derived.stall_currents(self.loop.voltage, shared, branches)
+        return figures.stall_currents(self.loop.voltage, shared, branches)
 
     def design(self, per_motor: dict[str, float]) -> dict[str, float]:
         if self.limit is None:
@@ -113,17 +114,17 @@ class StallContext:
 def conductor_from(build: Build, index: int, wire: Wire) -> Conductor:
     """A wire in floats: a metric size is read as the heaviest AWG row not above it."""
     if wire.cross_section is not None:
-        area = derived.in_unit(wire.cross_section, "mm**2")
+        area = in_unit(wire.cross_section, "mm**2")
         awg = awg_for_area(area)
     else:
         assert wire.gauge is not None  # the build model requires one of the two
         awg, area = wire.gauge.awg, wire.gauge.area_mm2
     motor = None
     if wire.circuit is Circuit.MOTOR:
-        fed = derived.motor_of(build, wire)
+        fed = figures.motor_of(build, wire)
         assert fed is not None  # the build model requires a motor name when there are several
         motor = fed.name
-    length = derived.in_unit(wire.length, "m")
+    length = in_unit(wire.length, "m")
     rating = wire.temperature_rating
     rated = wire.rated_ampacity
     return Conductor(
@@ -135,9 +136,9 @@ def conductor_from(build: Build, index: int, wire: Wire) -> Conductor:
         length,
         conductor_resistance(area, length),
         wire.insulation.value if wire.insulation is not None else None,
-        derived.in_unit(rating, "degC") if rating is not None else None,
+        in_unit(rating, "degC") if rating is not None else None,
         wire.bundled_with + 1,
-        derived.in_unit(rated, "A") if rated is not None else None,
+        in_unit(rated, "A") if rated is not None else None,
     )
 
 
@@ -145,8 +146,8 @@ def fuse_from(fuse: Fuse, wires: list[Conductor]) -> WireFuse:
     protected = [w for w in wires if w.name in fuse.protects]
     return WireFuse(
         fuse.name,
-        derived.in_unit(fuse.rating, "A"),
-        derived.in_unit(fuse.clearing_time, "s") if fuse.clearing_time is not None else None,
+        in_unit(fuse.rating, "A"),
+        in_unit(fuse.clearing_time, "s") if fuse.clearing_time is not None else None,
         frozenset(fuse.protects),
         fuse.location == BATTERY_POSITIVE,
         fuse.location == BATTERY_POSITIVE or any(w.motor is None for w in protected),

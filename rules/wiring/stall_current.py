@@ -27,12 +27,12 @@ from firstride_rules.wiring._findings import (
 )
 from firstride_rules.wiring._model import StallContext, fuse_from, power_wires
 
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Build, Circuit
 from reviewer.findings import Finding, Severity
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
-from reviewer.units import format_number
+from reviewer.units import format_number, in_unit
 
 __all__ = ["REMEDY_GAUGES", "RULE", "check"]
 
@@ -124,7 +124,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     the stall is sustained, a fuse or hardware current limit.
     """
     missing = _missing(build)
-    loop = None if missing else derived.stall_loop(build)
+    loop = None if missing else figures.stall_loop(build)
     if loop is None or build.battery is None:
         yield Finding(
             Severity.UNASSESSED,
@@ -136,15 +136,15 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         )
         return
     if build.usage.ambient_temperature is not None:
-        ambient = derived.in_unit(build.usage.ambient_temperature, "degC")
+        ambient = in_unit(build.usage.ambient_temperature, "degC")
         default = None
     else:
         default = profile.limit("usage.default_ambient_temperature")
-        ambient = derived.in_unit(default.quantity, "degC")
-    nominal = derived.pack_voltages(build.battery).nominal
-    limit = derived.current_limit(build)
+        ambient = in_unit(default.quantity, "degC")
+    nominal = figures.pack_voltages(build.battery).nominal
+    limit = figures.current_limit(build)
     response = build.controller.current_limit_response if build.controller else None
-    seconds = derived.in_unit(response, "s") if response is not None else None
+    seconds = in_unit(response, "s") if response is not None else None
     ctx = StallContext(profile, loop, nominal, ambient, limit, seconds)
     if default is not None:
         text = f"Ambient temperature not given: {format_number(ambient)} °C taken for wires."

@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 
 from firstride_millrace.inputs import EMPTY, PACK, MillraceInputs
-from reviewer import derived
+from reviewer import figures
 from reviewer.build import Build
 from reviewer.extensions import extension
 from reviewer.findings import Comparison, Finding, Severity, Source
@@ -115,7 +115,7 @@ def _rating(build: Build, inputs: MillraceInputs) -> Iterator[Output]:
             sources=(DC_BREAKING,),
         )
         return
-    full = derived.pack_voltages(build.battery).full
+    full = figures.pack_voltages(build.battery).full
     rated = rating.m_as("V")
     sources = (DC_BREAKING, CELL_VOLTAGES)
     common = {

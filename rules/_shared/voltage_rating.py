@@ -13,8 +13,8 @@ from dataclasses import dataclass
 import pint
 
 from reviewer.build import Build
-from reviewer.derived import pack_voltages
 from reviewer.engineering.fuses import blade_fuse_voltage
+from reviewer.figures import pack_voltages
 from reviewer.findings import Comparison, Finding, Severity, Source
 from reviewer.profile import Profile
 from reviewer.units import format_number, in_unit, quantity

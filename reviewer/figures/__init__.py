@@ -1,0 +1,57 @@
+"""Figures several rules share, computed from a validated build: plain numbers, no wording.
+
+This is the one place that knows how the build's parts connect: which wires carry which motor's
+current, what the stall loop consists of, what the pack's voltages are. Rules call these instead
+of re-deriving them, so two rules never disagree about the same current; each rule words the
+figures (and the defaults taken) itself. One module per subject: ``pack``, ``wires``,
+``stall``, ``drive``, ``loads``.
+"""
+
+from __future__ import annotations
+
+from reviewer.figures.drive import DriveDefaults, drive_model, drive_model_missing, motor_kv
+from reviewer.figures.loads import AuxiliaryLoad, auxiliary_current
+from reviewer.figures.pack import PackVoltages, cell_voltages, pack_resistance, pack_voltages
+from reviewer.figures.stall import (
+    StallLoop,
+    ambient_temperature,
+    current_limit,
+    stall_currents,
+    stall_loop,
+)
+from reviewer.figures.wires import (
+    branch_wires,
+    motor_of,
+    shared_wires,
+    wire_ampacity,
+    wire_ampacity_bound,
+    wire_area_mm2,
+    wire_awg,
+    wire_resistance,
+)
+
+__all__ = [
+    "AuxiliaryLoad",
+    "DriveDefaults",
+    "PackVoltages",
+    "StallLoop",
+    "ambient_temperature",
+    "auxiliary_current",
+    "branch_wires",
+    "cell_voltages",
+    "current_limit",
+    "drive_model",
+    "drive_model_missing",
+    "motor_kv",
+    "motor_of",
+    "pack_resistance",
+    "pack_voltages",
+    "shared_wires",
+    "stall_currents",
+    "stall_loop",
+    "wire_ampacity",
+    "wire_ampacity_bound",
+    "wire_area_mm2",
+    "wire_awg",
+    "wire_resistance",
+]

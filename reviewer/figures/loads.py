@@ -1,0 +1,45 @@
+"""What the pack feeds besides the motors: the logic board and the brake relay coil."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from reviewer.build import Build
+from reviewer.units import in_unit
+
+
+@dataclass(frozen=True)
+class AuxiliaryLoad:
+    """Current the pack feeds besides the motors: the logic board (through a regulator fed from
+    the pack) and the brake relay's coil, in A; and the fields of parts present whose current
+    the build does not give."""
+
+    current: float
+    parts: tuple[tuple[str, float], ...]  # ("logic board", 0.12): each part and its current, A
+    missing: tuple[str, ...]
+
+
+def auxiliary_current(build: Build) -> AuxiliaryLoad:
+    """Logic board current (counted at the pack as drawn: a linear regulator passes its output
+    current through, a switching one draws less, so this errs high) and brake relay coil."""
+    current, parts, missing = 0.0, [], []
+    logic = build.logic
+    if logic is not None and (logic.regulator is None or logic.regulator.fed_from_pack):
+        if logic.board_current is None:
+            missing.append("logic.board_current")
+        else:
+            amps = in_unit(logic.board_current, "mA") / 1000
+            current += amps
+            parts.append(("logic board", amps))
+    brake = build.brake
+    if brake is not None and any(
+        value is not None
+        for value in (brake.relay_contact_rating, brake.relay_contact_voltage, brake.coil_current)
+    ):
+        if brake.coil_current is None:
+            missing.append("brake.coil_current")
+        else:
+            amps = in_unit(brake.coil_current, "mA") / 1000
+            current += amps
+            parts.append(("brake relay coil", amps))
+    return AuxiliaryLoad(current, tuple(parts), tuple(missing))

@@ -1,0 +1,92 @@
+"""The stall loop: every motor started at once against a locked wheel, on the full pack."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from reviewer.build import Build
+from reviewer.figures.pack import pack_resistance, pack_voltages
+from reviewer.figures.wires import branch_wires, shared_wires, wire_resistance
+from reviewer.units import in_unit
+
+
+@dataclass(frozen=True)
+class StallLoop:
+    """The stall current of every motor at once, all started against a locked wheel."""
+
+    voltage: float  # pack full voltage, V
+    shared_resistance: float  # pack internal + battery-circuit wires, ohm
+    branch_resistance: dict[str, float]  # per motor: winding + switch + its own wires, ohm
+    branch_current: dict[str, float]  # per motor, A
+    total_current: float  # through the shared path, A
+    pack_resistance_known: bool
+
+
+# Many rules ask for the stall loop of the same build in turn: keep the last one. Holding the
+# build itself (not its id) makes the identity test sound; builds are frozen.
+_last_stall_loop: tuple[Build, float, StallLoop | None] | None = None
+
+
+def stall_loop(build: Build, temperature_c: float = 20.0) -> StallLoop | None:
+    """V = I_total R_shared + I_k R_k for each motor k; None where an input is missing.
+
+    With G = sum(1/R_k): I_total = V G / (1 + R_shared G). Cold (20 degC) resistances give the
+    highest current, which is what wires and fuses must survive.
+    """
+    global _last_stall_loop
+    memo = _last_stall_loop
+    if memo is not None and memo[0] is build and memo[1] == temperature_c:
+        return memo[2]
+    loop = _solve_stall_loop(build, temperature_c)
+    _last_stall_loop = (build, temperature_c, loop)
+    return loop
+
+
+def _solve_stall_loop(build: Build, temperature_c: float) -> StallLoop | None:
+    if build.battery is None or not build.motors:
+        return None
+    if any(m.winding_resistance is None for m in build.motors):
+        return None
+    voltage = pack_voltages(build.battery).full
+    internal = pack_resistance(build.battery)
+    shared = (internal or 0.0) + sum(wire_resistance(w, temperature_c) for w in shared_wires(build))
+    switch = 0.0
+    if build.controller is not None and build.controller.switch_on_resistance is not None:
+        switch = in_unit(build.controller.switch_on_resistance, "ohm")
+    branches: dict[str, float] = {}
+    for motor in build.motors:
+        assert motor.winding_resistance is not None
+        branches[motor.name] = (
+            in_unit(motor.winding_resistance, "ohm")
+            + switch
+            + sum(wire_resistance(w, temperature_c) for w in branch_wires(build, motor))
+        )
+    conductance = sum(1 / r for r in branches.values())
+    total = voltage * conductance / (1 + shared * conductance)
+    across = voltage - total * shared
+    currents = {name: across / r for name, r in branches.items()}
+    return StallLoop(voltage, shared, branches, currents, total, internal is not None)
+
+
+def current_limit(build: Build) -> float | None:
+    """The controller's per-motor current limit in A, or None where nothing limits current."""
+    if build.controller is None or build.controller.current_limit is None:
+        return None
+    return in_unit(build.controller.current_limit, "A")
+
+
+def ambient_temperature(build: Build, default_c: float) -> float:
+    if build.usage.ambient_temperature is not None:
+        return in_unit(build.usage.ambient_temperature, "degC")
+    return default_c
+
+
+def stall_currents(
+    voltage: float, shared_resistance: float, branch_resistance: dict[str, float]
+) -> tuple[float, dict[str, float]]:
+    """The stall_loop equations on what-if resistances (a heavier wire tried in a remedy):
+    returns the total current and each motor's, in A."""
+    conductance = sum(1 / r for r in branch_resistance.values())
+    total = voltage * conductance / (1 + shared_resistance * conductance)
+    across = voltage - total * shared_resistance
+    return total, {name: across / r for name, r in branch_resistance.items()}

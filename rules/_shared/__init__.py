@@ -1,0 +1,1 @@
+"""Wording, sources and judgements that rules of several areas share, so they never disagree."""

@@ -1,0 +1,54 @@
+"""Shared wording of shared figures: the stall current's source, the drive model's defaults, the
+pack's small loads. One wording, so every rule that quotes the same figure says it the same way.
+"""
+
+from __future__ import annotations
+
+from reviewer import figures
+from reviewer.build import Build
+from reviewer.engineering.roadload import Drive
+from reviewer.findings import Assumption, Source
+from reviewer.profile import Profile
+from reviewer.units import in_unit, unit
+
+#: Where the stall current V / R_loop comes from; every rule that quotes it cites this.
+STALL_SOURCE = Source.from_memory(
+    "Chapman, Electric Machinery Fundamentals: stall current V / R_loop"
+)
+
+
+def drive_model(
+    build: Build, profile: Profile
+) -> tuple[Drive | None, list[Assumption], tuple[str, ...]]:
+    """:func:`reviewer.figures.drive_model` with the profile's default Crr and CdA, and each
+    default the build relied on worded as an assumption of the review."""
+    crr_limit = profile.limit("usage.default_rolling_resistance")
+    cda_limit = profile.limit("usage.default_drag_area")
+    drive, defaults, missing = figures.drive_model(
+        build, float(crr_limit.value), in_unit(cda_limit.quantity, unit("m**2"))
+    )
+    notes = [
+        Assumption(
+            f"Motor '{name}': no-load current not given, taken as 0 A "
+            "(no friction), which errs on the fast side."
+        )
+        for name in defaults.no_load_current
+    ]
+    if defaults.rolling_resistance is not None:
+        crr = defaults.rolling_resistance
+        notes.append(
+            Assumption(f"Rolling resistance not given: Crr {crr:g} taken.", crr_limit.source)
+        )
+    if defaults.drag_area is not None:
+        cda = defaults.drag_area
+        notes.append(Assumption(f"Drag area not given: CdA {cda:g} m² taken.", cda_limit.source))
+    if defaults.efficiency:
+        notes.append(
+            Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")
+        )
+    return drive, notes, missing
+
+
+def small_loads(load: figures.AuxiliaryLoad) -> str:
+    """'logic board 0.12 A, brake relay coil 0.06 A'."""
+    return ", ".join(f"{name} {amps:.3g} A" for name, amps in load.parts)
