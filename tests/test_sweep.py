@@ -20,14 +20,14 @@ from .conftest import SAMPLES
 SAMPLE = SAMPLES / "quayside-commuter.toml"
 TEXT = SAMPLE.read_text(encoding="utf-8")
 DATA = tomllib.loads(TEXT)
-LIMIT_LINE = re.compile(r'^current_limit = "[^"]*"$', re.MULTILINE)
+LIMIT_LINE = re.compile(r'^motor_current_limit = "[^"]*"$', re.MULTILINE)
 
 
 def _full_review(tmp_path: Path, limit: str):
     """The build file itself with the field edited, reviewed from the command line's path."""
     assert LIMIT_LINE.search(TEXT)
     path = tmp_path / f"variant-{limit.replace(' ', '')}.toml"
-    path.write_text(LIMIT_LINE.sub(f'current_limit = "{limit}"', TEXT), encoding="utf-8")
+    path.write_text(LIMIT_LINE.sub(f'motor_current_limit = "{limit}"', TEXT), encoding="utf-8")
     return review_file(path)
 
 
@@ -41,7 +41,7 @@ def _binding(result) -> str:
 
 
 def test_each_point_is_the_full_review_of_that_variant(tmp_path: Path) -> None:
-    axis = parse_axis("controller.current_limit=4 A:40 A:6 A", DATA)
+    axis = parse_axis("controller.motor_current_limit=4 A:40 A:6 A", DATA)
     points = run_sweep(DATA, [axis])
     assert [p.values[0] for p in points] == ["4 A", "10 A", "16 A", "22 A", "28 A", "34 A", "40 A"]
     for point in points:
@@ -51,7 +51,7 @@ def test_each_point_is_the_full_review_of_that_variant(tmp_path: Path) -> None:
 
 
 def test_the_envelope_edges_match_full_reviews(tmp_path: Path) -> None:
-    axis = parse_axis("controller.current_limit=6 A:20 A:1 A", DATA)
+    axis = parse_axis("controller.motor_current_limit=6 A:20 A:1 A", DATA)
     points = run_sweep(DATA, [axis])
     (item,) = envelope([axis], points)
     assert item["passing"], "the sample's own 12 A lies in the range and reviews go"
@@ -68,7 +68,7 @@ def test_the_envelope_edges_match_full_reviews(tmp_path: Path) -> None:
 
 def test_two_fields_make_a_grid_and_jobs_give_the_same_points() -> None:
     axes = [
-        parse_axis("controller.current_limit=8 A:16 A:4 A", DATA),
+        parse_axis("controller.motor_current_limit=8 A:16 A:4 A", DATA),
         parse_axis("wires[0].gauge=20 AWG:14 AWG:2", DATA),
     ]
     assert axes[1].values == ("20 AWG", "18 AWG", "16 AWG", "14 AWG")
@@ -89,10 +89,10 @@ def test_a_count_steps_by_one_and_an_invalid_variant_is_an_input_error() -> None
     ("text", "expected"),
     [
         ("controller.current_limit", "FIELD=START:STOP"),
-        ("controller.current_limit=10 A", "START:STOP"),
-        ("controller.current_limit=10 A:20 V", "the same unit"),
-        ("controller.current_limit=20 A:10 A:2 A", "moves from START towards STOP"),
-        ("controller.current_limit=1 A:1000000 A:0.001 A", "at most"),
+        ("controller.motor_current_limit=10 A", "START:STOP"),
+        ("controller.motor_current_limit=10 A:20 V", "the same unit"),
+        ("controller.motor_current_limit=20 A:10 A:2 A", "moves from START towards STOP"),
+        ("controller.motor_current_limit=1 A:1000000 A:0.001 A", "at most"),
         ("battery.cells_series=5:9:0.5", "whole numbers"),
         ("wires[0].gauge=20 AWG:10 AWG:0", "gauge STEP"),
         ("1bad.path=1:2", "a field path"),
@@ -114,7 +114,7 @@ def test_the_command_writes_json_for_scripts(tmp_path: Path, capsys) -> None:
             "sweep",
             str(SAMPLE),
             "--vary",
-            "controller.current_limit=10 A:14 A:2 A",
+            "controller.motor_current_limit=10 A:14 A:2 A",
             "--format",
             "json",
             "-o",

@@ -49,6 +49,7 @@ Frequency = Annotated[pint.Quantity, _q(u.FREQUENCY)]
 ThermalResistance = Annotated[pint.Quantity, _q(u.THERMAL_RESISTANCE)]
 Grade = Annotated[pint.Quantity, _q(u.GRADE)]
 Fraction = Annotated[pint.Quantity, _q(u.FRACTION)]
+Inductance = Annotated[pint.Quantity, _q(u.INDUCTANCE)]
 
 
 class _Model(BaseModel):

@@ -44,6 +44,11 @@ class PinLoad(_Model):
 
 
 class Logic(_Model):
+    present: bool = Field(
+        True,
+        description="false when there is no separate logic board (a sealed controller and "
+        "its own remote or throttle): the logic checks then say so and pass",
+    )
     supply_voltage: Voltage | None = None
     pins: list[Name] | None = Field(None, max_length=256, description="pins the part has")
     pin_current_max: SmallCurrent | None = Field(None, description="absolute maximum per pin")

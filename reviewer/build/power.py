@@ -6,6 +6,7 @@ from typing import Self
 import pint
 from pydantic import Field, model_validator
 
+from reviewer import units as u
 from reviewer.build.fields import (
     Charge,
     Current,
@@ -13,6 +14,7 @@ from reviewer.build.fields import (
     Duration,
     Fraction,
     Frequency,
+    Inductance,
     Kv,
     Name,
     Resistance,
@@ -85,7 +87,17 @@ class Motor(_Model):
     kv: Kv | None = None
     no_load_speed: Rotation | None = Field(None, description="at rated_voltage, no load")
     rated_voltage: Voltage | None = None
-    winding_resistance: Resistance | None = Field(None, description="terminal to terminal, 20 degC")
+    winding_resistance: Resistance | None = Field(
+        None,
+        description="terminal to terminal at 20 degC: for a brushless motor line to line "
+        "(twice the phase resistance of a star winding)",
+    )
+    winding_inductance: Inductance | None = Field(
+        None, description="terminal to terminal (line to line for a brushless motor)"
+    )
+    pole_pairs: int | None = Field(
+        None, ge=1, le=100, description="magnet pole pairs (a brushless motor's poles / 2)"
+    )
     no_load_current: Current | None = None
     rated_current: Current | None = Field(None, description="rated continuous current")
     insulation_class: InsulationClass | None = None
@@ -95,15 +107,34 @@ class Motor(_Model):
     def _speed_constant(self) -> Self:
         if self.kv is None and self.no_load_speed is not None and self.rated_voltage is None:
             raise ValueError("no_load_speed needs rated_voltage to give the motor's Kv")
+        if (
+            self.kv is None
+            and self.rated_voltage is not None
+            and self.no_load_current is not None
+            and self.winding_resistance is not None
+            and self.no_load_current.m_as("A") * self.winding_resistance.m_as("ohm")
+            >= self.rated_voltage.m_as("V")
+        ):
+            raise ValueError("no_load_current x winding_resistance must be below rated_voltage")
         return self
 
     @property
     def effective_kv(self) -> pint.Quantity | None:
-        """Kv given, or no-load speed over rated voltage (brushed motors are specified so)."""
+        """Kv given, or from the no-load speed: n0 / (V - I0 R), the no-load current's own drop
+        taken out once (reviewer.engineering.brushless.kv_from_no_load)."""
+        from reviewer.engineering.brushless import kv_from_no_load
+
         if self.kv is not None:
             return self.kv
         if self.no_load_speed is not None and self.rated_voltage is not None:
-            return (self.no_load_speed / self.rated_voltage).to("rpm/V")
+            no_load = self.no_load_current.m_as("A") if self.no_load_current is not None else 0.0
+            resistance = (
+                self.winding_resistance.m_as("ohm") if self.winding_resistance is not None else 0.0
+            )
+            kv = kv_from_no_load(
+                self.no_load_speed.m_as("rpm"), self.rated_voltage.m_as("V"), no_load, resistance
+            )
+            return u.quantity(kv, "rpm/V")
         return None
 
 
@@ -113,10 +144,13 @@ class Drivetrain(_Model):
     ratio: float | None = Field(None, gt=0.05, le=100, description="motor turns per wheel turn")
     wheel_diameter: Diameter | None = None
     efficiency: Fraction | None = None
+    hub_motor: bool = Field(False, description="the motor is in the wheel: no reduction (ratio 1)")
 
     @model_validator(mode="after")
     def _one_ratio(self) -> Self:
         teeth = (self.motor_pulley_teeth, self.wheel_pulley_teeth)
+        if self.hub_motor and (self.ratio not in (None, 1.0) or any(t is not None for t in teeth)):
+            raise ValueError("a hub motor turns with its wheel: give no ratio or pulleys")
         if self.ratio is not None and any(t is not None for t in teeth):
             raise ValueError("give either ratio or the two pulley tooth counts, not both")
         if (teeth[0] is None) != (teeth[1] is None):
@@ -126,6 +160,8 @@ class Drivetrain(_Model):
     @property
     def reduction(self) -> float | None:
         """Motor turns per wheel turn."""
+        if self.hub_motor:
+            return 1.0
         if self.ratio is not None:
             return self.ratio
         if self.motor_pulley_teeth and self.wheel_pulley_teeth:
@@ -138,11 +174,55 @@ class LimitKind(enum.Enum):
     SOFTWARE = "software"
 
 
+class DriveKind(enum.Enum):
+    """How the controller drives the motor (brief 11)."""
+
+    BRUSHED = "brushed"  # a PWM switch on a brushed motor
+    SIX_STEP = "six-step"  # trapezoidal commutation of a brushless motor
+    FIELD_ORIENTED = "field-oriented"  # sinusoidal (FOC) drive of a brushless motor
+
+
+class CurrentBasis(enum.Enum):
+    PEAK = "peak"
+    RMS = "rms"
+
+
+SPLIT_LIMIT = (
+    "controller.current_limit is split in two: motor_current_limit (the motor current, the "
+    "phase current for a brushless motor: it sets torque and heats the winding) and "
+    "battery_current_limit (what the controller draws from the pack)"
+)
+
+
 class Controller(_Model):
-    current_limit: Current | None = Field(None, description="per motor; absent means none")
+    motor_current_limit: Current | None = Field(
+        None,
+        description="per motor: the motor current the controller holds; for a brushless motor "
+        "the phase current (say peak or rms in motor_current_basis); absent means none",
+    )
+    motor_current_basis: CurrentBasis | None = Field(
+        None, description="whether a field-oriented controller's phase limit is peak or rms"
+    )
+    battery_current_limit: Current | None = Field(
+        None, description="per motor: the current the controller draws from the pack at most"
+    )
+    drive: DriveKind | None = None
     current_limit_kind: LimitKind | None = None
     current_limit_response: Duration | None = Field(
         None, description="time from overcurrent to the limit acting"
+    )
+    rated_continuous_current: Current | None = Field(
+        None, description="the controller's datasheet continuous (motor or phase) current"
+    )
+    peak_current: Current | None = Field(None, description="the datasheet peak current")
+    peak_duration: Duration | None = Field(None, description="how long the peak may last")
+    max_input_voltage: Voltage | None = Field(None, description="the datasheet input maximum")
+    thermal_cutback: bool | None = Field(
+        None, description="it reduces current as it overheats (its datasheet says so)"
+    )
+    regen: bool | None = Field(None, description="it brakes by driving current into the pack")
+    regen_current_limit: Current | None = Field(
+        None, description="the most battery current regenerative braking drives into the pack"
     )
     max_duty: Fraction | None = None
     pwm_frequency: Frequency | None = None
@@ -162,6 +242,13 @@ class Controller(_Model):
     current_sensor_range: Current | None = None
     current_samples_averaged: int | None = Field(None, ge=1, le=1_000_000)
     current_sample_rate: Frequency | None = None
+
+    @model_validator(mode="before")
+    @classmethod
+    def _old_limit(cls, data: object) -> object:
+        if isinstance(data, dict) and "current_limit" in data:
+            raise ValueError(SPLIT_LIMIT)
+        return data
 
 
 class BrakeKind(enum.Enum):

@@ -24,6 +24,7 @@ from reviewer.build.fields import (
 class Circuit(enum.Enum):
     BATTERY = "battery"
     MOTOR = "motor"
+    PHASE = "phase"  # between a brushless controller and its motor
     LOGIC = "logic"
     BRAKE = "brake"
     OTHER = "other"

@@ -26,7 +26,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         required=True,
         metavar="FIELD=START:STOP[:STEP]",
         help="a field path and a range written as in the build file, e.g. "
-        "'controller.current_limit=10 A:40 A:2 A' or 'wires[0].gauge=18 AWG:10 AWG' "
+        "'controller.motor_current_limit=10 A:40 A:2 A' or 'wires[0].gauge=18 AWG:10 AWG' "
         "(once or twice)",
     )
     parser.add_argument("--profile", help="a profile of limits (TOML); default: built-in")

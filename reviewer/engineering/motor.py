@@ -69,7 +69,9 @@ def copper_loss(current: float, resistance: float) -> float:
 class TorqueSpeedLine:
     """One motor at a fixed effective voltage: current and shaft torque against speed.
 
-    ``current_limit`` of None means nothing limits the current below the stall current.
+    ``current_limit`` (the motor current, DC-equivalent) and ``battery_limit`` (what the
+    controller draws from the pack) of None mean nothing limits the current below the stall
+    current. Both act together (reviewer.engineering.brushless).
     """
 
     kv_rpm_per_v: float
@@ -77,6 +79,7 @@ class TorqueSpeedLine:
     loop_resistance: float
     no_load_current: float = 0.0
     current_limit: float | None = None
+    battery_limit: float | None = None
 
     def __post_init__(self) -> None:
         if self.loop_resistance <= 0:
@@ -105,11 +108,17 @@ class TorqueSpeedLine:
         )
 
     def current(self, omega: float) -> float:
-        """I(w) = min((V - Ke w) / R, I_lim), in A."""
+        """I(w) = min((V - Ke w) / R, I_lim, the current whose battery draw is I_b,lim), in A."""
         unlimited = (self.voltage - self.ke * omega) / self.loop_resistance
-        if self.current_limit is None:
-            return unlimited
-        return min(unlimited, self.current_limit)
+        current = unlimited if self.current_limit is None else min(unlimited, self.current_limit)
+        if self.battery_limit is None:
+            return current
+        emf = max(self.ke * omega, 0.0)
+        r = self.loop_resistance
+        drawn = (-emf + math.sqrt(emf * emf + 4.0 * r * self.battery_limit * self.voltage)) / (
+            2 * r
+        )
+        return min(current, drawn)
 
     def torque(self, omega: float) -> float:
         """Shaft torque T = Kt (I - I0) in N m; negative above the no-load speed."""

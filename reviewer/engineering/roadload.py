@@ -201,8 +201,9 @@ class Drive:
     drag_area: float  # m^2
     shared_resistance: float = 0.0  # ohm
     duty: float = 1.0
-    current_limit: float | None = None  # A per motor
+    current_limit: float | None = None  # A per motor (DC-equivalent motor current)
     efficiency: float = 1.0
+    battery_limit: float | None = None  # A per motor, from the pack
 
     def lines(self, duty: float | None = None) -> list[TorqueSpeedLine]:
         duty = self.duty if duty is None else duty
@@ -214,6 +215,7 @@ class Drive:
                 loop_resistance=motor.branch_resistance + shared,
                 no_load_current=motor.no_load_current,
                 current_limit=self.current_limit,
+                battery_limit=self.battery_limit,
             )
             for motor in self.motors
         ]

@@ -9,6 +9,18 @@ figures (and the defaults taken) itself. One module per subject: ``pack``, ``wir
 
 from __future__ import annotations
 
+from reviewer.figures.currents import (
+    DesignCurrent,
+    LimitResponse,
+    MotorLimit,
+    any_limit,
+    battery_design_current,
+    battery_limit,
+    drive_kind,
+    limit_response,
+    motor_limit,
+    phase_conductor_current,
+)
 from reviewer.figures.drive import DriveDefaults, drive_model, drive_model_missing, motor_kv
 from reviewer.figures.loads import AuxiliaryLoad, auxiliary_current
 from reviewer.figures.pack import PackVoltages, cell_voltages, pack_resistance, pack_voltages
@@ -18,6 +30,7 @@ from reviewer.figures.stall import (
     current_limit,
     stall_currents,
     stall_loop,
+    stall_point,
 )
 from reviewer.figures.wires import (
     branch_wires,
@@ -32,23 +45,34 @@ from reviewer.figures.wires import (
 
 __all__ = [
     "AuxiliaryLoad",
+    "DesignCurrent",
     "DriveDefaults",
+    "LimitResponse",
+    "MotorLimit",
     "PackVoltages",
     "StallLoop",
     "ambient_temperature",
+    "any_limit",
     "auxiliary_current",
+    "battery_design_current",
+    "battery_limit",
     "branch_wires",
     "cell_voltages",
     "current_limit",
+    "drive_kind",
     "drive_model",
     "drive_model_missing",
+    "limit_response",
     "motor_kv",
+    "motor_limit",
     "motor_of",
     "pack_resistance",
     "pack_voltages",
+    "phase_conductor_current",
     "shared_wires",
     "stall_currents",
     "stall_loop",
+    "stall_point",
     "wire_ampacity",
     "wire_ampacity_bound",
     "wire_area_mm2",

@@ -5,7 +5,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from reviewer.build import Build, Motor
+from reviewer.engineering.brushless import kv_from_no_load
 from reviewer.engineering.roadload import Drive, DriveMotor
+from reviewer.figures.currents import battery_limit
 from reviewer.figures.stall import current_limit, stall_loop
 from reviewer.units import in_unit, unit
 
@@ -22,12 +24,21 @@ class DriveDefaults:
 
 
 def motor_kv(motor: Motor) -> float | None:
-    """Kv in rpm/V: given, or no-load speed over rated voltage (as ``Motor.effective_kv``, in
-    floats: pint division is slow)."""
+    """Kv in rpm/V: given, or from the no-load speed with the no-load drop taken out once,
+    n0 / (V - I0 R) (as ``Motor.effective_kv``, in floats: pint division is slow)."""
     if motor.kv is not None:
         return in_unit(motor.kv, unit("rpm/V"))
     if motor.no_load_speed is not None and motor.rated_voltage is not None:
-        return in_unit(motor.no_load_speed, unit("rpm")) / in_unit(motor.rated_voltage, unit("V"))
+        no_load = 0.0 if motor.no_load_current is None else in_unit(motor.no_load_current, "A")
+        resistance = (
+            0.0 if motor.winding_resistance is None else in_unit(motor.winding_resistance, "ohm")
+        )
+        return kv_from_no_load(
+            in_unit(motor.no_load_speed, unit("rpm")),
+            in_unit(motor.rated_voltage, unit("V")),
+            no_load,
+            resistance,
+        )
     return None
 
 
@@ -54,14 +65,18 @@ def drive_model_missing(build: Build) -> tuple[str, ...]:
 
 
 def drive_model(
-    build: Build, default_rolling_resistance: float, default_drag_area: float
+    build: Build,
+    default_rolling_resistance: float,
+    default_drag_area: float,
+    bound: str = "high",
 ) -> tuple[Drive | None, DriveDefaults, tuple[str, ...]]:
     """The build's motors, gearing and vehicle as one ``Drive`` (SI floats), the defaults
     taken for inputs the build leaves out, and the missing fields (the drive is None then).
 
     Each motor is a torque-speed line on the full pack (cold stall loop: winding, switch, its
     own wires, plus the shared pack and battery wiring), at ``controller.max_duty`` (100 % if
-    unset) and the per-motor ``controller.current_limit``. Defaults: no-load current 0 A,
+    unset), the per-motor ``controller.motor_current_limit`` (its ``bound`` reading: ``high``
+    for speed, ``low`` for climbing) and ``battery_current_limit``. Defaults: no-load current 0 A,
     drivetrain efficiency 100 % (both on the fast side), Crr and CdA as given (the caller's
     profile values, m^2 for the drag area).
     """
@@ -101,7 +116,8 @@ def drive_model(
         drag_area=default_drag_area if drag_area is None else drag_area,
         shared_resistance=loop.shared_resistance,
         duty=duty,
-        current_limit=current_limit(build),
+        current_limit=current_limit(build, bound),
+        battery_limit=battery_limit(build),
         efficiency=efficiency,
     )
     defaults = DriveDefaults(

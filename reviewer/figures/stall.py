@@ -5,6 +5,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from reviewer.build import Build
+from reviewer.engineering.brushless import DriveCurrents, limited_currents
+from reviewer.figures.currents import battery_limit, motor_limit
 from reviewer.figures.pack import pack_resistance, pack_voltages
 from reviewer.figures.wires import branch_wires, shared_wires, wire_resistance
 from reviewer.units import in_unit
@@ -68,11 +70,29 @@ def _solve_stall_loop(build: Build, temperature_c: float) -> StallLoop | None:
     return StallLoop(voltage, shared, branches, currents, total, internal is not None)
 
 
-def current_limit(build: Build) -> float | None:
-    """The controller's per-motor current limit in A, or None where nothing limits current."""
-    if build.controller is None or build.controller.current_limit is None:
+def current_limit(build: Build, bound: str = "high") -> float | None:
+    """The per-motor motor current limit in DC-equivalent A (``high`` or ``low`` reading, see
+    :mod:`reviewer.figures.currents`), or None where the build states no motor limit."""
+    limits = [motor_limit(build, motor) for motor in build.motors] or [None]
+    values = [getattr(limit, bound) for limit in limits if limit is not None]
+    if not values:
         return None
-    return in_unit(build.controller.current_limit, "A")
+    return max(values) if bound == "high" else min(values)
+
+
+def stall_point(build: Build, motor_name: str, temperature_c: float = 20.0) -> DriveCurrents | None:
+    """The locked rotor of one motor with both limits acting (after their response): its
+    DC-equivalent motor current and its battery current, on the full pack through its branch
+    and the shared path (cold resistances: the highest current)."""
+    loop = stall_loop(build, temperature_c)
+    if loop is None:
+        return None
+    motor = next(m for m in build.motors if m.name == motor_name)
+    limit = motor_limit(build, motor)
+    resistance = loop.branch_resistance[motor_name] + loop.shared_resistance
+    return limited_currents(
+        0.0, loop.voltage, resistance, None if limit is None else limit.high, battery_limit(build)
+    )
 
 
 def ambient_temperature(build: Build, default_c: float) -> float:
