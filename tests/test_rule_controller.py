@@ -30,7 +30,7 @@ MOTOR: dict[str, Any] = {
     "insulation_class": "F",
 }
 CONTROLLER: dict[str, Any] = {
-    "current_limit": "20 A",
+    "motor_current_limit": "20 A",
     "current_limit_kind": "software",
     "pwm_frequency": "4 kHz",
     "switch_on_resistance": f"{SWITCH} ohm",
@@ -131,13 +131,13 @@ def test_hot_switch_remedies_each_pass_when_rerun() -> None:
     milliohm = number_in(finding.remedy, r"switch of at most ([\d.]+) mΩ")
     reruns = [
         build(switch_thermal_resistance_sink_air=f"{sink} K/W"),
-        build(switch_thermal_resistance_sink_air="20 K/W", current_limit=f"{amps} A"),
+        build(switch_thermal_resistance_sink_air="20 K/W", motor_current_limit=f"{amps} A"),
         build(switch_thermal_resistance_sink_air="20 K/W", switch_on_resistance=f"{milliohm} mohm"),
     ]
     for data in reruns:
         assert run_rule_on(SWITCH_THERMAL, data)[0].severity is Severity.PASS
     # and the current is the highest tenth of an ampere that passes
-    over = build(switch_thermal_resistance_sink_air="20 K/W", current_limit=f"{amps + 0.1:.1f} A")
+    over = build(switch_thermal_resistance_sink_air="20 K/W", motor_current_limit=f"{amps + 0.1:.1f} A")
     assert run_rule_on(SWITCH_THERMAL, over)[0].severity is not Severity.PASS
 
 
@@ -153,7 +153,7 @@ def test_max_duty_scales_the_conduction_loss() -> None:
 
 def test_no_current_limit_checks_the_stall_current() -> None:
     # Chapman (from memory): with no limit the switch carries V / R_loop = 113 A
-    findings, figures, assumptions = rule_outputs(SWITCH_THERMAL, build(current_limit=None))
+    findings, figures, assumptions = rule_outputs(SWITCH_THERMAL, build(motor_current_limit=None))
     assert figure(figures, "switch conduction loss") == pytest.approx(
         STALL**2 * SWITCH * HOT_FACTOR
     )
@@ -174,7 +174,7 @@ def test_default_ambient_is_flagged() -> None:
 
 def test_switch_thermal_names_missing_fields() -> None:
     data = build()
-    data["controller"] = {"current_limit": "20 A"}
+    data["controller"] = {"motor_current_limit": "20 A"}
     finding = run_rule_on(SWITCH_THERMAL, data)[0]
     assert finding.severity is Severity.UNASSESSED
     assert finding.missing == (
@@ -190,11 +190,11 @@ def test_switch_thermal_names_missing_fields() -> None:
 
 
 def test_switch_thermal_without_limit_or_stall_inputs() -> None:
-    data = build(current_limit=None)
+    data = build(motor_current_limit=None)
     del data["battery"]
     finding = run_rule_on(SWITCH_THERMAL, data)[0]
     assert finding.severity is Severity.UNASSESSED
-    assert finding.missing == ("battery", "controller.current_limit")
+    assert finding.missing == ("battery", "controller.motor_current_limit")
 
 
 def test_no_controller_names_every_switch_field() -> None:
@@ -204,7 +204,7 @@ def test_no_controller_names_every_switch_field() -> None:
     assert finding.severity is Severity.UNASSESSED
     # the eight switch fields; the current is known without a limit (the stall current)
     assert len(finding.missing) == 8
-    assert "controller.current_limit" not in finding.missing
+    assert "controller.motor_current_limit" not in finding.missing
     freewheel = run_rule_on(FREEWHEEL, data)[0]
     assert freewheel.severity is Severity.UNASSESSED
     assert freewheel.missing == ("controller.freewheel_diode",)
@@ -256,7 +256,7 @@ def test_worst_average_diode_current_at_the_limit() -> None:
 def test_without_a_limit_the_diode_sees_a_quarter_of_the_stall_current() -> None:
     # derived from I (1 - D) with I = D I_stall: largest at D = 0.5, I_stall / 4 = 28.3 A;
     # the peak is the whole stall current (Chapman, from memory)
-    findings, _, _ = rule_outputs(FREEWHEEL, build(current_limit=None))
+    findings, _, _ = rule_outputs(FREEWHEEL, build(motor_current_limit=None))
     average = by_subject(findings, "freewheel diode average current")
     assert average.limit.m_as("A") == pytest.approx(STALL / 4)
     assert average.severity is Severity.FIX  # 20 A rating

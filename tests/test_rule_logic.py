@@ -21,7 +21,7 @@ from reviewer.profile import Limit, Profile
 from reviewer.session import default_profile
 from reviewer.testing import rule_outputs, run_rule_on
 
-PINS = ["PB0", "PB1", "PB2", "PB3", "PC0", "PC1", "PC2", "PC3", "PD0", "PD1"]
+PINS = ["P1", "P2", "P3", "P4", "P5", "P6", "P7", "P8", "P9", "P10"]
 
 
 def _logic(loads: list[dict[str, Any]], **limits: Any) -> dict[str, Any]:
@@ -30,8 +30,8 @@ def _logic(loads: list[dict[str, Any]], **limits: Any) -> dict[str, Any]:
         "pin_current_max": "40 mA",
         "total_current_max": "200 mA",
         "port_groups": [
-            {"name": "PB", "pins": ["PB0", "PB1", "PB2", "PB3"], "current_max": "100 mA"},
-            {"name": "PC", "pins": ["PC0", "PC1", "PC2", "PC3"], "current_max": "100 mA"},
+            {"name": "BANK-A", "pins": ["P1", "P2", "P3", "P4"], "current_max": "100 mA"},
+            {"name": "BANK-B", "pins": ["P5", "P6", "P7", "P8"], "current_max": "100 mA"},
         ],
         "loads": loads,
     }
@@ -108,7 +108,7 @@ def test_rule_identity() -> None:
 
 
 def test_relay_coil_spread_over_three_pins_is_flagged() -> None:
-    coil = {"name": "brake relay coil", "pins": ["PB0", "PB1", "PB2"], "current": "60 mA"}
+    coil = {"name": "brake relay coil", "pins": ["P1", "P2", "P3"], "current": "60 mA"}
     coil |= {"inductive": True, "flyback_diode": True, "driver": "pin"}
     found = _by_subject(_logic([coil]))
     load = found["load 'brake relay coil'"]
@@ -118,18 +118,18 @@ def test_relay_coil_spread_over_three_pins_is_flagged() -> None:
     assert "20 mA" in load.rationale and "30 mA" in load.rationale
     assert "MOSFET or NPN transistor" in (load.remedy or "")
     assert "flyback diode" in (load.remedy or "")
-    for pin in ("PB0", "PB1", "PB2"):
+    for pin in ("P1", "P2", "P3"):
         finding = found[f"pin {pin}"]
         assert _ma(finding) == pytest.approx(30.0)  # 1.5 x 20 mA worst case
         assert finding.severity is Severity.FIX  # over 50 % of 40 mA, under 40 mA
         assert "20 mA" in (finding.remedy or "")
-    assert found["port group PB"].severity is Severity.PASS  # 60 mA <= 80 % of 100 mA
+    assert found["port group BANK-A"].severity is Severity.PASS  # 60 mA <= 80 % of 100 mA
     assert _ma(found["package total"]) == pytest.approx(60.0)
 
 
 def test_coil_without_flyback_diode_is_stop_whatever_drives_it() -> None:
     for driver in ("pin", "mosfet", "transistor"):
-        coil = {"name": "horn relay", "pins": ["PD0"], "current": "15 mA", "inductive": True}
+        coil = {"name": "horn relay", "pins": ["P9"], "current": "15 mA", "inductive": True}
         coil["driver"] = driver
         load = _by_subject(_logic([coil]))["load 'horn relay'"]
         assert load.severity is Severity.STOP, driver  # v = L di/dt at turn-off
@@ -139,35 +139,35 @@ def test_coil_without_flyback_diode_is_stop_whatever_drives_it() -> None:
 def test_per_pin_limit_pass_fix_stop() -> None:
     cases = [("15 mA", Severity.PASS), ("25 mA", Severity.FIX), ("45 mA", Severity.STOP)]
     for current, severity in cases:
-        led = {"name": "tail lamp", "pins": ["PD1"], "current": current}
-        pin = _by_subject(_logic([led]))["pin PD1"]
+        led = {"name": "tail lamp", "pins": ["P10"], "current": current}
+        pin = _by_subject(_logic([led]))["pin P10"]
         assert pin.severity is severity, current  # 20 mA derated, 40 mA absolute maximum
         assert pin.limit.m_as("mA") == pytest.approx(20.0)
     assert "keep each pin at or below 20 mA" in (pin.remedy or "")
-    assert "move 25 mA off pin PD1" in (pin.remedy or "")
+    assert "move 25 mA off pin P10" in (pin.remedy or "")
 
 
 def test_port_group_limit() -> None:
-    loads = [{"name": f"lamp {i}", "pins": [f"PC{i}"], "current": "18 mA"} for i in range(2)]
+    loads = [{"name": f"lamp {i}", "pins": [f"P{5 + i}"], "current": "18 mA"} for i in range(2)]
     data = _logic(loads)
     data["logic"]["port_groups"][1]["current_max"] = "40 mA"
     found = _by_subject(data)
-    group = found["port group PC"]
+    group = found["port group BANK-B"]
     assert _ma(group) == pytest.approx(36.0)
     assert group.severity is Severity.FIX  # 36 mA over 80 % of 40 mA = 32 mA
-    assert "move 4 mA off port group PC" in (group.remedy or "")
-    assert found["pin PC0"].severity is Severity.PASS  # 18 mA <= 20 mA
+    assert "move 4 mA off port group BANK-B" in (group.remedy or "")
+    assert found["pin P5"].severity is Severity.PASS  # 18 mA <= 20 mA
     data["logic"]["port_groups"][1]["current_max"] = "30 mA"
-    assert _by_subject(data)["port group PC"].severity is Severity.STOP  # 36 > 30 absolute
+    assert _by_subject(data)["port group BANK-B"].severity is Severity.STOP  # 36 > 30 absolute
 
 
 def test_load_on_two_port_groups_counts_uneven_sharing() -> None:
-    bar = {"name": "light bar", "pins": ["PB3", "PC3"], "current": "30 mA"}
+    bar = {"name": "light bar", "pins": ["P4", "P8"], "current": "30 mA"}
     data = _logic([bar])
     for group in data["logic"]["port_groups"]:
         group["current_max"] = "25 mA"
     found = _by_subject(data)
-    for name in ("PB", "PC"):
+    for name in ("BANK-A", "BANK-B"):
         group = found[f"port group {name}"]
         # even share 15 mA would pass 20 mA; 1.5 x 15 = 22.5 mA does not
         assert _ma(group) == pytest.approx(22.5)
@@ -187,18 +187,18 @@ def test_package_total_limit() -> None:
 
 
 def test_imbalance_comes_from_the_profile() -> None:
-    bar = {"name": "light bar", "pins": ["PB0", "PB1"], "current": "36 mA"}
-    even = _by_subject(_logic([bar]))["pin PB0"]
+    bar = {"name": "light bar", "pins": ["P1", "P2"], "current": "36 mA"}
+    even = _by_subject(_logic([bar]))["pin P1"]
     assert _ma(even) == pytest.approx(27.0)  # default profile 1.5 x 18 mA
     mild = _by_subject(_logic([bar]), _profile_with("logic.parallel_pin_imbalance", 1.1))
-    assert _ma(mild["pin PB0"]) == pytest.approx(19.8)  # 1.1 x 18 mA
-    assert mild["pin PB0"].severity is Severity.PASS
+    assert _ma(mild["pin P1"]) == pytest.approx(19.8)  # 1.1 x 18 mA
+    assert mild["pin P1"].severity is Severity.PASS
     harsh = _by_subject(_logic([bar]), _profile_with("logic.parallel_pin_imbalance", 3.0))
-    assert _ma(harsh["pin PB0"]) == pytest.approx(36.0)  # 3 x 18 = 54, capped at the 36 mA load
+    assert _ma(harsh["pin P1"]) == pytest.approx(36.0)  # 3 x 18 = 54, capped at the 36 mA load
 
 
 def test_pass_with_mosfet_driver_and_flyback_diode() -> None:
-    coil = {"name": "brake relay coil", "pins": ["PB0"], "current": "60 mA", "inductive": True}
+    coil = {"name": "brake relay coil", "pins": ["P1"], "current": "60 mA", "inductive": True}
     coil |= {"flyback_diode": True, "driver": "mosfet"}
     findings, _, assumptions = rule_outputs(RULE, _logic([coil]))
     assert findings and all(f.severity is Severity.PASS for f in findings)
@@ -206,10 +206,10 @@ def test_pass_with_mosfet_driver_and_flyback_diode() -> None:
 
 
 def test_transistor_driver_counts_base_current() -> None:
-    coil = {"name": "brake relay coil", "pins": ["PB0"], "current": "60 mA", "inductive": True}
+    coil = {"name": "brake relay coil", "pins": ["P1"], "current": "60 mA", "inductive": True}
     coil |= {"flyback_diode": True, "driver": "transistor"}
     found = _by_subject(_logic([coil]))
-    assert _ma(found["pin PB0"]) == pytest.approx(6.0)  # from memory: Ic / 10
+    assert _ma(found["pin P1"]) == pytest.approx(6.0)  # from memory: Ic / 10
     assert found["load 'brake relay coil'"].severity is Severity.PASS
 
 
@@ -224,14 +224,20 @@ def test_missing_logic_section_is_unassessed() -> None:
 
 
 def test_missing_limits_are_unassessed_and_named() -> None:
-    led = {"name": "tail lamp", "pins": ["PD1"], "current": "15 mA"}
+    led = {"name": "tail lamp", "pins": ["P10"], "current": "15 mA"}
     found = _by_subject(_logic([led], pin_current_max=None, total_current_max=None))
     assert found["each pin"].severity is Severity.UNASSESSED
     assert found["each pin"].missing == ("logic.pin_current_max",)
     assert found["package total"].missing == ("logic.total_current_max",)
-    assert "pin PD1" not in found
+    assert "pin P10" not in found
 
 
 def test_no_loads_is_unassessed() -> None:
     findings = run_rule_on(RULE, _logic([]))
     assert [f.missing for f in findings] == [("logic.loads",)]
+
+
+def test_a_board_said_absent_settles_the_pin_checks() -> None:
+    findings = run_rule_on(RULE, {"logic": {"present": False}})
+    assert [(f.subject, f.severity) for f in findings] == [("logic pins", Severity.PASS)]
+    assert "no separate logic board" in findings[0].rationale

@@ -166,8 +166,8 @@ def test_brake_coil_on_the_rail_is_added() -> None:
 
 
 def test_brake_coil_listed_as_a_logic_load_is_counted_once() -> None:
-    coil = {"name": "brake relay", "pins": ["D5"], "current": "60 mA", "inductive": True}
-    lamp = {"name": "lamp", "pins": ["D6"], "current": "10 mA"}
+    coil = {"name": "brake relay", "pins": ["P5"], "current": "60 mA", "inductive": True}
+    lamp = {"name": "lamp", "pins": ["P6"], "current": "10 mA"}
     data = build(brake={"kind": "dynamic", "coil_current": "60 mA"})
     data["logic"]["loads"] = [coil, lamp]
     assert figure(data, "logic rail current").m_as("mA") == pytest.approx(170.0)
@@ -187,11 +187,25 @@ def test_defaults_are_flagged() -> None:
     assert "Ambient temperature not given: 35 °C" in texts
 
 
-def test_no_logic_board_passes_with_nothing_to_check() -> None:
-    findings = run_rule_on(RULE, {"battery": BUILD["battery"]})
+def test_a_board_said_absent_passes_with_nothing_to_check() -> None:
+    findings = run_rule_on(RULE, {"battery": BUILD["battery"], "logic": {"present": False}})
     assert len(findings) == 1
     assert findings[0].severity is Severity.PASS
-    assert "no logic board" in findings[0].rationale
+    assert "no separate logic board" in findings[0].rationale
+
+
+def test_a_board_left_out_is_unassessed_not_a_pass() -> None:
+    # an absent input never takes the favourable value: no [logic] is not "no logic board"
+    findings = run_rule_on(RULE, {"battery": BUILD["battery"]})
+    assert [f.severity for f in findings] == [Severity.UNASSESSED]
+    assert findings[0].missing == ("logic",)
+
+
+def test_a_board_said_absent_cannot_also_have_loads() -> None:
+    import pytest
+
+    with pytest.raises(Exception, match="present = false"):
+        run_rule_on(RULE, {"logic": {"present": False, "board_current": "40 mA"}})
 
 
 def test_logic_board_without_regulator_is_unassessed() -> None:

@@ -59,6 +59,17 @@ class Logic(_Model):
     regulator: Regulator | None = None
 
     @model_validator(mode="after")
+    def _absent_board(self) -> Self:
+        if not self.present and any(
+            (self.pins, self.port_groups, self.loads, self.board_current, self.regulator)
+        ):
+            raise ValueError(
+                "logic.present = false says there is no logic board: remove its pins, port "
+                "groups, loads, board current and regulator, or set present = true"
+            )
+        return self
+
+    @model_validator(mode="after")
     def _known_pins(self) -> Self:
         if self.pins is None:
             return self

@@ -37,11 +37,26 @@ def _stall_loop(build: Build) -> figures.StallLoop | None:
 
 
 def current_limit(build: Build) -> float | None:
-    """The per-motor current limit in A (as ``figures.current_limit``, without pint's
-    conversion when the field is already in amperes)."""
-    if build.controller is None or build.controller.current_limit is None:
+    """The most current the switch, freewheel path and sensor carry while the controller's
+    limits hold, in A: per motor the locked-rotor motor current with both limits acting
+    (``figures.stall_point``: the battery limit alone still lets sqrt(I_b V / R) into a locked
+    motor), as the phase current for a brushless drive; the highest over the motors. None when
+    nothing limits current, or when only a battery limit is given and the stall loop is
+    unknown."""
+    if not figures.any_limit(build) or not build.motors:
         return None
-    return magnitude(build.controller.current_limit, _A)
+    amps = []
+    for motor in build.motors:
+        point = figures.stall_point(build, motor.name)
+        if point is not None:
+            dc = point.motor_current
+        else:
+            limit = figures.motor_limit(build, motor)
+            if limit is None:
+                return None
+            dc = limit.high
+        amps.append(figures.phase_conductor_current(build, motor, dc))
+    return max(amps)
 
 
 def worst_stall(build: Build, brushed_only: bool = False) -> Stall | None:

@@ -5,6 +5,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
+from firstride_rules.controller._datasheet import DATASHEET, has_ratings, sealed
 from firstride_rules.controller._drive import (
     STALL,
     ceil_whole,
@@ -15,6 +16,7 @@ from firstride_rules.controller._drive import (
     worst_stall,
 )
 
+from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Controller, LimitKind
 from reviewer.engineering.switching import (
@@ -51,7 +53,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
     What it checks
       - Range: ``controller.current_sensor_range`` against the current limit
-        (``controller.current_limit``) and the highest cold stall current on the full pack
+        (``controller.motor_current_limit``) and the highest cold stall current on the full pack
         (shared stall loop). A saturated sensor hides the very current the limit must see.
       - Averaging window: ``current_samples_averaged`` / ``current_sample_rate`` seconds, against
         the PWM period 1 / ``pwm_frequency``. The motor current the sensor sees is chopped or
@@ -68,11 +70,13 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       - fix: range below the stall current; a window shorter than one PWM period or not spanning
         a whole number of them.
       - advise: a current limit above a motor's rated continuous current.
-      - pass: each within its bound; or no sensor described and no software current limit
-        claimed (``current_limit_kind`` not ``software``): no sensed limit to check; likewise no
-        sampling described (a sensor feeding a hardware limit): no averaging window.
-      - unassessed: no sensor, or no sampling, described while the limit is claimed as
-        software; a sensor field, ``pwm_frequency``, the stall current's inputs or a motor's
+      - pass: each within its bound; or no sensor described and no current limit claimed, a
+        hardware limit stated, or a sealed controller with its datasheet ratings (judged by
+        controller.switch-thermal); likewise no sampling described (a sensor feeding a hardware
+        limit): no averaging window.
+      - unassessed: no sensor, or no sampling, described while the limit is software or of
+        unstated kind (taken as software); a sensor field, ``pwm_frequency``, the stall
+        current's inputs or a motor's
         ``rated_current`` absent (the missing fields are named).
 
     Remedies give values: the sensor range needed (the stall current), a sample count that spans
@@ -83,27 +87,61 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         getattr(controller, name) is not None for name in _SENSOR_FIELDS
     )
     if controller is None or not described:
-        software = controller is not None and controller.current_limit_kind is LimitKind.SOFTWARE
-        yield Finding(
-            severity=Severity.UNASSESSED if software else Severity.PASS,
-            subject="current sensor",
-            rationale=(
-                "The controller claims a software current limit but no current sensor is "
-                "described, so what the limit acts on cannot be checked."
-                if software
-                else "No controller is described, so there is no sensed current limit to check."
-                if controller is None
-                else "No current sensor is described and the controller claims no software "
-                "current limit, so there is no sampled current measurement to check."
-            ),
-            missing=tuple(f"controller.{name}" for name in _SENSOR_FIELDS) if software else (),
-            sources=(SATURATION, WHOLE_PERIODS),
-        )
+        yield _undescribed(build, controller)
     else:
         yield _range_finding(build, controller)
         tolerance = profile.limit("controller.current_sense.whole_period_tolerance")
         yield from _window_findings(controller, tolerance)
     yield from _rating_findings(build)
+
+
+def _undescribed(build: Build, controller: Controller | None) -> Finding:
+    """No sensor described: say what that settles, and never pass a limit nobody measures."""
+    sources = (SATURATION, WHOLE_PERIODS)
+    if controller is None or not figures.any_limit(build):
+        what = "No controller is described" if controller is None else "No current limit is claimed"
+        return Finding(
+            Severity.PASS,
+            "current sensor",
+            f"{what}, so there is no sensed limit to check; the wiring and fuse rules judge the "
+            "stall current that flows instead.",
+            sources=sources,
+        )
+    if sealed(controller) and has_ratings(controller):
+        response = figures.limit_response(build)
+        when = (
+            f"it acts within {u.format_number(response.seconds * 1000)} ms ({response.basis})"
+            if response.seconds is not None
+            else "its response time is not known, so the wiring rules hold the stall current "
+            "until a fuse clears"
+        )
+        return Finding(
+            Severity.PASS,
+            "current sensor",
+            "A sealed controller measures its own current: its sensing is judged by its "
+            "datasheet ratings (controller.switch-thermal checks the current it lets through "
+            f"against them); {when}.",
+            sources=(DATASHEET,),
+        )
+    if controller.current_limit_kind is LimitKind.HARDWARE:
+        return Finding(
+            Severity.PASS,
+            "current sensor",
+            "No current sensor is described and the limit is a hardware one, so there is no "
+            "sampled current measurement to check.",
+            sources=sources,
+        )
+    said = "claims a software" if controller.current_limit_kind else "does not say what kind of"
+    return Finding(
+        Severity.UNASSESSED,
+        "current sensor",
+        f"The controller {said} current limit (a limit of unstated kind is taken as software) "
+        "but no current sensor is described, so what the limit acts on cannot be checked. "
+        'Describe the sensor, state controller.current_limit_kind = "hardware", or give a '
+        "sealed controller's datasheet ratings.",
+        missing=tuple(f"controller.{name}" for name in _SENSOR_FIELDS),
+        sources=sources,
+    )
 
 
 def _range_finding(build: Build, controller: Controller) -> Finding:
@@ -334,7 +372,7 @@ RULE = Rule(
         "controller.current_samples_averaged",
         "controller.current_sample_rate",
         "controller.pwm_frequency",
-        "controller.current_limit",
+        "controller.motor_current_limit",
         "controller.current_limit_kind",
         "controller.current_limit_response",
         "battery",

@@ -78,7 +78,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       ``reviewer.ratings.diode_reverse_rating``, the one voltage.ratings makes of the same
       diode, so the two agree on the figure, the severity and the words;
       ``diode_average_current`` at least the worst average current; ``diode_peak_current`` at
-      least the current limit (``controller.current_limit``), or the cold stall current with
+      least the current limit (``controller.motor_current_limit``), or the cold stall current with
       no limit.
 
     Formula
@@ -181,7 +181,7 @@ def _needs(build: Build, profile: Profile, voltage_factor: Limit) -> _Needs:
     peak = limit if limit is not None else (stall.current if stall is not None else None)
     missing_current: tuple[str, ...] = ()
     if peak is None:
-        missing_current = ("controller.current_limit", *stall_missing(build))
+        missing_current = ("controller.motor_current_limit", *stall_missing(build))
     return _Needs(
         reverse=reverse,
         voltage=voltage,
@@ -296,7 +296,7 @@ RULE = Rule(
         "controller.diode_reverse_voltage",
         "controller.diode_average_current",
         "controller.diode_peak_current",
-        "controller.current_limit",
+        "controller.motor_current_limit",
         "battery",
         "motors[].winding_resistance",
     ),

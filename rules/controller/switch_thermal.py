@@ -7,6 +7,12 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
+from firstride_rules.controller._datasheet import (
+    DATASHEET,
+    has_ratings,
+    rating_findings,
+    sealed,
+)
 from firstride_rules.controller._drive import (
     STALL,
     controller_missing,
@@ -72,7 +78,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
     What it checks
       The controller's power switch (a MOSFET; one per motor, all alike) carrying the motor
-      current: the per-motor current limit (``controller.current_limit``), or with none the
+      current: the per-motor current limit (``controller.motor_current_limit``), or with none the
       highest cold stall current on the full pack (winding, switch and wires, from the shared
       stall loop). It conducts for the duty D: ``controller.max_duty`` if set, else D = 1. A
       brushed drive reaches its current limit at low speed, so the limit held at full duty is the
@@ -101,6 +107,19 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     heatsink can), the current limit that does, and the 25 degC on-resistance that does.
     """
     controller = build.controller
+    if controller is not None and controller.switch_max_current is not None:
+        yield from (f for f in rating_findings(build) if "switch" in f.subject)
+    if sealed(controller) and has_ratings(controller):
+        yield Finding(
+            Severity.PASS,
+            "controller switch",
+            "A sealed controller: its switches' losses and thermal path are not known, so it is "
+            "judged by its datasheet current ratings instead (the findings beside this one).",
+            sources=(DATASHEET,),
+        )
+        required = ("peak_current", "rated_continuous_current")
+        yield from (f for f in rating_findings(build, required) if "switch" not in f.subject)
+        return
     limit = current_limit(build)
     stall = worst_stall(build) if limit is None else None
     missing = controller_missing(build, _NEEDED)
@@ -108,7 +127,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         missing.append("battery")
     if limit is None and stall is None:
         needs = [m for m in stall_missing(build) if m not in missing]
-        missing += ["controller.current_limit", *needs]
+        missing += ["controller.motor_current_limit", *needs]
     if missing or controller is None or build.battery is None:
         yield Finding(
             severity=Severity.UNASSESSED,
@@ -117,6 +136,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
                 "The switch's junction temperature needs its on-resistance, rise and fall times, "
                 "the PWM frequency, its thermal resistances and maximum junction temperature, the "
                 "pack voltage and the current it carries (the current limit, or the stall current)."
+                " A sealed controller may instead be judged by its datasheet ratings "
+                "(controller.rated_continuous_current, controller.peak_current)."
             ),
             missing=tuple(missing),
             sources=(LOSSES, JUNCTION),
@@ -321,7 +342,7 @@ RULE = Rule(
     check=check,
     sources=(LOSSES, JUNCTION, STALL),
     inputs=(
-        "controller.current_limit",
+        "controller.motor_current_limit",
         "controller.max_duty",
         "controller.pwm_frequency",
         *(f"controller.{name}" for name in _NEEDED if name != "pwm_frequency"),

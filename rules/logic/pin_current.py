@@ -91,6 +91,16 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     package, and a MOSFET or transistor driver with a flyback diode for coils.
     """
     logic = build.logic
+    if logic is not None and not logic.present:
+        yield Finding(
+            severity=Severity.PASS,
+            subject="logic pins",
+            rationale="The build states there is no separate logic board (logic.present = "
+            "false): no pin, port group or package currents and no coils on logic pins to "
+            "check; the controller's own electronics are judged by the controller rules.",
+            sources=(DATASHEET,),
+        )
+        return
     missing_limits = _missing_limits(logic)
     if logic is None or not logic.loads:
         yield Finding(

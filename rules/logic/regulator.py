@@ -119,11 +119,23 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     junction-to-air thermal resistance (heatsink) that would do, each re-checked.
     """
     logic = build.logic
-    if logic is None:
+    if logic is not None and not logic.present:
         yield Finding(
             Severity.PASS,
             "logic supply",
-            "The build describes no logic board, so there is no logic regulator to check.",
+            "The build states there is no separate logic board (logic.present = false): there "
+            "is no logic regulator to check; the controller's own electronics are judged by the "
+            "controller and voltage rules.",
+        )
+        return
+    if logic is None:
+        yield Finding(
+            Severity.UNASSESSED,
+            "logic supply",
+            "The build does not describe its logic board, nor say it has none, so its regulator "
+            "could not be checked (set logic.present = false when there is no separate board).",
+            missing=("logic",),
+            sources=(LINEAR_LOSS,),
         )
         return
     regulator = logic.regulator

@@ -18,7 +18,7 @@ from firstride_rules._shared import voltage_rating as ratings
 from firstride_rules._shared.voltage_rating import VoltageRating, whole_volts_up
 
 from reviewer import figures
-from reviewer.build import Battery, Build, Controller
+from reviewer.build import Battery, Build, Controller, MotorType
 from reviewer.findings import (
     Assumption,
     Comparison,
@@ -84,11 +84,59 @@ def _factor(profile: Profile, key: str) -> tuple[float, Source]:
     return float(limit.value), limit.source  # type: ignore[arg-type]
 
 
+BRIDGE = Source.from_memory(
+    "Mohan, Undeland and Robbins, Power Electronics: each switch of a three-phase inverter bridge "
+    "has an antiparallel diode that carries the phase current when the switch opens, clamping "
+    "the turn-off spike to the supply"
+)
+CONTROLLER_INPUT = Source(
+    "The controller's datasheet maximum input voltage, as entered in the build", SourceStatus.USER
+)
+
+
+def _bridge(build: Build) -> bool:
+    """A three-phase bridge drives every motor (all brushless): no freewheel diode applies."""
+    return bool(build.motors) and all(m.type is MotorType.BRUSHLESS for m in build.motors)
+
+
 def _switch_parts(
     build: Build, controller: Controller, full: float, profile: Profile
 ) -> Iterator[_Part | Assumption]:
-    diode = controller.freewheel_diode
     clamped, clamped_source = _factor(profile, "voltage.switch_margin.with_diode")
+    if controller.max_input_voltage is not None or (
+        controller.switch_max_voltage is None and _bridge(build)
+    ):
+        # A sealed controller: its datasheet input maximum is the rating the pack meets; the
+        # spike margin inside is the maker's to keep.
+        yield _Part(
+            "controller input",
+            VoltageRating(
+                "controller.max_input_voltage",
+                _maybe(controller.max_input_voltage),
+                full,
+                full,
+                f"the {_n(full)} V full pack, within the controller's own datasheet maximum",
+                f"use a controller rated for at least {whole_volts_up(full)} input, or a pack "
+                "of fewer cells in series",
+            ),
+            (CELL_LIMITS, CONTROLLER_INPUT),
+        )
+        if controller.switch_max_voltage is None:
+            return
+    if _bridge(build):
+        switch = VoltageRating(
+            "controller.switch_max_voltage",
+            _maybe(controller.switch_max_voltage),
+            full,
+            full * clamped,
+            f"{_n(clamped)} x the {_n(full)} V full pack: the bridge's own diodes clamp the "
+            "turn-off spike of a brushless motor, so no freewheel diode is asked for",
+            f"use bridge switches rated at least {whole_volts_up(full * clamped)}",
+            clamped_source,
+        )
+        yield _Part("bridge switches", switch, (CELL_LIMITS, BRIDGE, clamped_source))
+        return
+    diode = controller.freewheel_diode
     bare, bare_source = _factor(profile, "voltage.switch_margin.without_diode")
     factor, source = (clamped, clamped_source) if diode else (bare, bare_source)
     if diode:
