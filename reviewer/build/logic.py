@@ -2,7 +2,7 @@
 
 from typing import Literal, Self
 
-from pydantic import Field, model_validator
+from pydantic import Field, StrictBool, model_validator
 
 from reviewer.build.fields import (
     MAX_ITEMS,
@@ -22,7 +22,7 @@ class Regulator(_Model):
     quiescent_current: SmallCurrent | None = None
     thermal_resistance: ThermalResistance | None = Field(None, description="junction to air")
     max_junction_temperature: Temperature | None = None
-    fed_from_pack: bool = True
+    fed_from_pack: StrictBool = True
     input_voltage: Voltage | None = Field(
         None, description="what feeds it when it is not fed from the traction pack"
     )
@@ -38,13 +38,13 @@ class PinLoad(_Model):
     name: Name
     pins: list[Name] = Field(min_length=1, max_length=MAX_ITEMS)
     current: SmallCurrent
-    inductive: bool = False
-    flyback_diode: bool | None = None
+    inductive: StrictBool = False
+    flyback_diode: StrictBool | None = None
     driver: Literal["pin", "transistor", "mosfet", "driver-ic"] = "pin"
 
 
 class Logic(_Model):
-    present: bool = Field(
+    present: StrictBool = Field(
         True,
         description="false when there is no separate logic board (a sealed controller and "
         "its own remote or throttle): the logic checks then say so and pass",

@@ -4,7 +4,7 @@ import enum
 from typing import Self
 
 import pint
-from pydantic import Field, model_validator
+from pydantic import Field, StrictBool, StrictFloat, StrictInt, model_validator
 
 from reviewer import units as u
 from reviewer.build.fields import (
@@ -41,13 +41,13 @@ class Chemistry(enum.Enum):
 
 class Battery(_Model):
     chemistry: Chemistry
-    cells_series: int = Field(ge=1, le=40)
-    cells_parallel: int = Field(1, ge=1, le=40)
+    cells_series: StrictInt = Field(ge=1, le=40)
+    cells_parallel: StrictInt = Field(1, ge=1, le=40)
     cell_capacity: Charge | None = None
     cell_continuous_current: Current | None = None
-    cell_c_rate: float | None = Field(None, gt=0, le=500, description="continuous C-rating")
+    cell_c_rate: StrictFloat | None = Field(None, gt=0, le=500, description="continuous C-rating")
     cell_internal_resistance: Resistance | None = None
-    bms: bool | None = Field(None, description="a battery management system is fitted")
+    bms: StrictBool | None = Field(None, description="a battery management system is fitted")
     low_voltage_cutoff: Voltage | None = Field(None, description="pack-level cut-off setting")
     charger_voltage: Voltage | None = None
 
@@ -69,10 +69,10 @@ class InsulationClass(enum.Enum):
 
 
 class Cooling(_Model):
-    fan: bool = Field(False, description="the motor has its own shaft fan or forced air")
-    inlet_blocked: bool = False
-    outlet_blocked: bool = False
-    blocked_cooling_factor: float | None = Field(
+    fan: StrictBool = Field(False, description="the motor has its own shaft fan or forced air")
+    inlet_blocked: StrictBool = False
+    outlet_blocked: StrictBool = False
+    blocked_cooling_factor: StrictFloat | None = Field(
         None,
         gt=0,
         le=1,
@@ -95,7 +95,7 @@ class Motor(_Model):
     winding_inductance: Inductance | None = Field(
         None, description="terminal to terminal (line to line for a brushless motor)"
     )
-    pole_pairs: int | None = Field(
+    pole_pairs: StrictInt | None = Field(
         None, ge=1, le=100, description="magnet pole pairs (a brushless motor's poles / 2)"
     )
     no_load_current: Current | None = None
@@ -139,12 +139,16 @@ class Motor(_Model):
 
 
 class Drivetrain(_Model):
-    motor_pulley_teeth: int | None = Field(None, ge=5, le=200)
-    wheel_pulley_teeth: int | None = Field(None, ge=5, le=400)
-    ratio: float | None = Field(None, gt=0.05, le=100, description="motor turns per wheel turn")
+    motor_pulley_teeth: StrictInt | None = Field(None, ge=5, le=200)
+    wheel_pulley_teeth: StrictInt | None = Field(None, ge=5, le=400)
+    ratio: StrictFloat | None = Field(
+        None, gt=0.05, le=100, description="motor turns per wheel turn"
+    )
     wheel_diameter: Diameter | None = None
     efficiency: Fraction | None = None
-    hub_motor: bool = Field(False, description="the motor is in the wheel: no reduction (ratio 1)")
+    hub_motor: StrictBool = Field(
+        False, description="the motor is in the wheel: no reduction (ratio 1)"
+    )
 
     @model_validator(mode="after")
     def _one_ratio(self) -> Self:
@@ -217,10 +221,10 @@ class Controller(_Model):
     peak_current: Current | None = Field(None, description="the datasheet peak current")
     peak_duration: Duration | None = Field(None, description="how long the peak may last")
     max_input_voltage: Voltage | None = Field(None, description="the datasheet input maximum")
-    thermal_cutback: bool | None = Field(
+    thermal_cutback: StrictBool | None = Field(
         None, description="it reduces current as it overheats (its datasheet says so)"
     )
-    regen: bool | None = Field(None, description="it brakes by driving current into the pack")
+    regen: StrictBool | None = Field(None, description="it brakes by driving current into the pack")
     regen_current_limit: Current | None = Field(
         None, description="the most battery current regenerative braking drives into the pack"
     )
@@ -235,12 +239,12 @@ class Controller(_Model):
     switch_thermal_resistance_sink_air: ThermalResistance | None = None
     switch_rise_time: Duration | None = None
     switch_fall_time: Duration | None = None
-    freewheel_diode: bool | None = None
+    freewheel_diode: StrictBool | None = None
     diode_reverse_voltage: Voltage | None = None
     diode_average_current: Current | None = None
     diode_peak_current: Current | None = None
     current_sensor_range: Current | None = None
-    current_samples_averaged: int | None = Field(None, ge=1, le=1_000_000)
+    current_samples_averaged: StrictInt | None = Field(None, ge=1, le=1_000_000)
     current_sample_rate: Frequency | None = None
 
     @model_validator(mode="before")
@@ -260,7 +264,7 @@ class BrakeKind(enum.Enum):
 
 class Brake(_Model):
     kind: BrakeKind
-    friction_brake: bool | None = Field(None, description="a friction brake besides this one")
+    friction_brake: StrictBool | None = Field(None, description="a friction brake besides this one")
     relay_contact_rating: Current | None = Field(None, description="DC rating of the contacts")
     relay_contact_voltage: Voltage | None = None
     coil_current: SmallCurrent | None = None

@@ -2,7 +2,7 @@
 
 import enum
 
-from pydantic import ConfigDict, Field
+from pydantic import ConfigDict, Field, StrictBool, StrictFloat
 
 from reviewer.build.fields import DragArea, Grade, IpCode, Mass, Name, Temperature, _Model
 from reviewer.engineering.ingress import IngressCode
@@ -41,8 +41,8 @@ class Rider(_Model):
 class Enclosure(_Model):
     electronics_ip: IpCode | None = None
     battery_ip: IpCode | None = None
-    battery_hard_case: bool | None = None
-    battery_under_deck: bool | None = None
+    battery_hard_case: StrictBool | None = None
+    battery_under_deck: StrictBool | None = None
 
     @property
     def electronics(self) -> IngressCode | None:
@@ -63,5 +63,5 @@ class Usage(_Model):
     conditions: Conditions | None = None
     ambient_temperature: Temperature | None = None
     steepest_grade: Grade | None = None
-    rolling_resistance: float | None = Field(None, gt=0, le=0.5, description="Crr")
+    rolling_resistance: StrictFloat | None = Field(None, gt=0, le=0.5, description="Crr")
     drag_area: DragArea | None = None

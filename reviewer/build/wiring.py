@@ -4,7 +4,7 @@ import enum
 from typing import Literal, Self
 
 import pint
-from pydantic import Field, model_validator
+from pydantic import Field, StrictInt, model_validator
 
 from reviewer import units as u
 from reviewer.build.fields import (
@@ -48,7 +48,9 @@ class Wire(_Model):
     length: Length
     insulation: Insulation | None = None
     temperature_rating: Temperature | None = None
-    bundled_with: int = Field(0, ge=0, le=100, description="other loaded conductors alongside")
+    bundled_with: StrictInt = Field(
+        0, ge=0, le=100, description="other loaded conductors alongside"
+    )
     rated_ampacity: Current | None = Field(None, description="from the wire's own datasheet")
 
     @model_validator(mode="after")
