@@ -75,8 +75,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       A fitted diode's ratings are checked: ``diode_reverse_voltage`` against the pack's full
       voltage (``battery``) it blocks while the switch conducts, with the profile's
       ``voltage.diode_margin`` over it for turn-off ringing. That judgement is
-      ``reviewer.ratings.diode_reverse_rating``, the one voltage.ratings makes of the same
-      diode, so the two agree on the figure, the severity and the words;
+      ``diode_reverse_rating`` (``firstride_rules._shared.voltage_rating``), the one
+      voltage.ratings makes of the same diode, so the two agree on the figure, the severity
+      and the words;
       ``diode_average_current`` at least the worst average current; ``diode_peak_current`` at
       least the current limit (``controller.motor_current_limit``), or the cold stall current with
       no limit.

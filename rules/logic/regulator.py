@@ -86,8 +86,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       since the logic may be powered while charging.
 
       1. Input: that voltage against ``logic.regulator.input_max``, judged by
-         ``reviewer.ratings.regulator_input_rating``, the judgement voltage.ratings makes of
-         the same input, so the two agree on the figure, the severity and the words.
+         ``regulator_input_rating`` (``firstride_rules._shared.voltage_rating``), the
+         judgement voltage.ratings makes of the same input, so the two agree on the figure,
+         the severity and the words.
       2. Heat (linear only): the load is ``logic.board_current`` (microcontroller, sensors,
          radio) plus every ``logic.loads[].current`` (all taken on the regulated rail at once)
          plus the brake relay's coil (``brake.coil_current``) unless a logic load that is

@@ -288,7 +288,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
          there is no current limit to protect them.
       3. Interruption of each such fuse: ``fuses[i].voltage_rating`` (DC) at least the full
          pack voltage (ISO 8820-3 blade fuses: 32 V or 58 V), judged by
-         ``reviewer.ratings.fuse_voltage_rating`` as voltage.ratings judges the same fuse; and
+         ``fuse_voltage_rating`` (``firstride_rules._shared.voltage_rating``) as
+         voltage.ratings judges the same fuse; and
          ``fuses[i].breaking_capacity``, once the voltage rating is not below the pack's,
          at least the prospective short-circuit current at the controller input,
          V_full / (R_pack + R_battery_wires), with R_pack from

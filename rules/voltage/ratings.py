@@ -63,7 +63,8 @@ def _n(value: float) -> str:
 @dataclass(frozen=True)
 class _Part:
     """One part the pack reaches: its rating, judged as every rule that checks it judges it
-    (``reviewer.ratings.VoltageRating``), and the sources this rule cites for it."""
+    (``firstride_rules._shared.voltage_rating.VoltageRating``), and the sources this rule
+    cites for it."""
 
     subject: str
     rating: VoltageRating
