@@ -78,7 +78,7 @@ CASES: dict[str, tuple[str | None, str]] = {
     "malformed ip code": (BASE + '[enclosure]\nelectronics_ip = "IP7X"\n', "not an IP code"),
     "pin the part lacks": (
         BASE
-        + '[logic]\npins = ["D2", "D3"]\n[[logic.loads]]\nname = "lamp"\npins = ["D9"]\ncurrent = "10 mA"\n',
+        + '[logic]\npins = ["P1", "P2"]\n[[logic.loads]]\nname = "lamp"\npins = ["P9"]\ncurrent = "10 mA"\n',
         "which the part does not have",
     ),
     "too many riders": (

@@ -56,7 +56,7 @@ def test_untrusted_key_fails(tmp_path: Path, capsys) -> None:
 
 def test_other_build_fails(tmp_path: Path, capsys) -> None:
     review = _signed_review(tmp_path)
-    other = SAMPLES / "garage-sprint-board.toml"
+    other = SAMPLES / "allotment-cargo-trike.toml"
     assert main(["verify", str(review), "--build", str(other)]) == 1
     assert "build file differs" in capsys.readouterr().out
 

@@ -173,7 +173,7 @@ def test_markdown_escaping_shortcut_equals_the_full_table(text: str) -> None:
 def test_program_exit_and_output_match_main(tmp_path) -> None:
     """``python -m reviewer`` writes the same review and exits with the same code as main()
     called in this process; main() alone leaves the collector as it found it."""
-    build = SAMPLES / "garage-sprint-board.toml"
+    build = SAMPLES / "allotment-cargo-trike.toml"
     here, there = tmp_path / "here.md", tmp_path / "there.md"
     before = gc.get_threshold()
     code = main(["review", str(build), "-o", str(here)])

@@ -10,7 +10,7 @@ from reviewer.cli import main
 
 from .conftest import SAMPLES
 
-NO_GO = SAMPLES / "garage-sprint-board.toml"
+NO_GO = SAMPLES / "allotment-cargo-trike.toml"
 
 
 def test_json_carries_numbers_units_verdict_and_fingerprints(tmp_path: Path) -> None:
@@ -20,7 +20,7 @@ def test_json_carries_numbers_units_verdict_and_fingerprints(tmp_path: Path) -> 
     assert data["format"] == "firstride-review" and data["format_version"] == 1
     assert data["verdict"] == "no-go"
     assert re.fullmatch(r"[0-9a-f]{64}", data["build"]["sha256"])
-    assert data["build"]["fields"]["battery.cells_series"] == 6
+    assert data["build"]["fields"]["battery.cells_series"] == 10
     measured = [f["measured"] for f in data["findings"] if f["measured"]]
     assert measured and all(("value" in m and "unit" in m) or "text" in m for m in measured)
     assert any(f["severity"] == "stop" for f in data["findings"])
@@ -30,7 +30,7 @@ def test_json_carries_numbers_units_verdict_and_fingerprints(tmp_path: Path) -> 
 def test_html_is_one_inert_self_contained_page(tmp_path: Path) -> None:
     build = tmp_path / "b.toml"
     text = NO_GO.read_text().replace(
-        'name = "Garage Sprint Board"', 'name = "<script>alert(1)</script><img src=x onerror=y>"'
+        'name = "Allotment Cargo Trike"', 'name = "<script>alert(1)</script><img src=x onerror=y>"'
     )
     build.write_text(text)
     out = tmp_path / "r.html"
@@ -53,7 +53,7 @@ def test_since_reports_resolved_new_and_changed_fields(tmp_path: Path) -> None:
     changed.write_text(
         NO_GO.read_text()
         .replace("battery_hard_case = false", "battery_hard_case = true")
-        .replace('battery_ip = "IPX0"', 'battery_ip = "IP54"')
+        .replace('battery_ip = "IP21"', 'battery_ip = "IP54"')
     )
     out = tmp_path / "r.json"
     main(["review", str(changed), "--since", str(previous), "--format", "json", "-o", str(out)])
@@ -64,7 +64,7 @@ def test_since_reports_resolved_new_and_changed_fields(tmp_path: Path) -> None:
     fields = {c["field"]: (c["before"], c["after"]) for c in changes["fields"]}
     assert fields == {
         "enclosure.battery_hard_case": ("false", "true"),
-        "enclosure.battery_ip": ("IPX0", "IP54"),
+        "enclosure.battery_ip": ("IP21", "IP54"),
     }
     md = tmp_path / "r.md"
     main(["review", str(changed), "--since", str(previous), "-o", str(md)])

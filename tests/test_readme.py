@@ -18,7 +18,7 @@ def test_review_excerpt_matches_a_real_review(tmp_path: Path, monkeypatch) -> No
     assert excerpt
     monkeypatch.chdir(ROOT)
     output = tmp_path / "review.md"
-    main(["review", "sample_builds/garage-sprint-board.toml", "-o", str(output)])
+    main(["review", "sample_builds/allotment-cargo-trike.toml", "-o", str(output)])
     review = output.read_text(encoding="utf-8").splitlines()
     for line in excerpt.group(1).splitlines():
         if line and line != "...":

@@ -57,7 +57,7 @@ def test_every_table_is_well_formed(name: str) -> None:
 
 
 def test_sections_present() -> None:
-    text = _render(SAMPLES / "garage-sprint-board.toml")
+    text = _render(SAMPLES / "allotment-cargo-trike.toml")
     for heading in (
         "## Findings by severity",
         "## Summary",

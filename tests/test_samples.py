@@ -15,7 +15,7 @@ from .conftest import SAMPLES
 
 EXPECTED = {
     "quayside-commuter.toml": ("go", 0),
-    "garage-sprint-board.toml": ("no-go", 1),
+    "allotment-cargo-trike.toml": ("no-go", 1),
     "unfinished-yard-kart.toml": ("incomplete", 1),
 }
 
@@ -32,7 +32,7 @@ def test_sample_verdict_and_exit_code(name: str, tmp_path: Path, capsys) -> None
 def test_no_go_sample_has_stops_from_at_least_three_core_rules() -> None:
     from reviewer.session import review_file
 
-    result = review_file(SAMPLES / "garage-sprint-board.toml")
+    result = review_file(SAMPLES / "allotment-cargo-trike.toml")
     core = {
         "wiring.stall-current",
         "motor.cooling",
@@ -45,7 +45,7 @@ def test_no_go_sample_has_stops_from_at_least_three_core_rules() -> None:
 
 
 def test_review_is_byte_for_byte_deterministic(tmp_path: Path) -> None:
-    sample = SAMPLES / "garage-sprint-board.toml"
+    sample = SAMPLES / "allotment-cargo-trike.toml"
     first, second = tmp_path / "a.md", tmp_path / "b.md"
     main(["review", str(sample), "-o", str(first)])
     main(["review", str(sample), "-o", str(second)])
@@ -76,11 +76,11 @@ def test_sample_waivers_and_history_show_in_the_review(tmp_path: Path) -> None:
     code = main(
         [
             "review",
-            str(SAMPLES / "garage-sprint-board.toml"),
+            str(SAMPLES / "allotment-cargo-trike.toml"),
             "--waivers",
-            str(SAMPLES / "records" / "garage-sprint-board-waivers.toml"),
+            str(SAMPLES / "records" / "allotment-cargo-trike-waivers.toml"),
             "--since",
-            str(SAMPLES / "records" / "garage-sprint-board-rev0.json"),
+            str(SAMPLES / "records" / "allotment-cargo-trike-rev0.json"),
             "-o",
             str(output),
         ]
@@ -88,7 +88,7 @@ def test_sample_waivers_and_history_show_in_the_review(tmp_path: Path) -> None:
     text = output.read_text()
     assert code == 1
     assert "## Changes since the previous review" in text
-    assert "| battery.cells\\_series | 7 | 6 |" in text
+    assert "| battery.cells\\_series | 12 | 10 |" in text
     assert "## Waivers" in text
     assert "| applied |" in text
     assert "a stop finding cannot be waived under this profile" in text

@@ -23,12 +23,12 @@ DAY = datetime.date(2026, 11, 30)
 def _rule(severity: Severity) -> Rule:
     def check(build, profile):
         """Yields one finding of the given severity."""
-        yield Finding(severity, "pin D5", "as given")
+        yield Finding(severity, "pin P5", "as given")
 
     return Rule(id="test.rule", title="t", check=check, sources=(Source.common_practice("x"),))
 
 
-def _waiver(subject: str = "pin D5", rule: str = "test.rule") -> Waiver:
+def _waiver(subject: str = "pin P5", rule: str = "test.rule") -> Waiver:
     return Waiver(rule=rule, subject=subject, justification="why", accepted_by="who", date=DAY)
 
 
@@ -71,7 +71,7 @@ def test_unassessed_cannot_be_waived() -> None:
 @pytest.mark.parametrize(
     ("waiver", "note"),
     [
-        (_waiver(subject="pin D9"), "unused"),
+        (_waiver(subject="pin P9"), "unused"),
         (_waiver(rule="other.rule"), "no loaded rule"),
     ],
 )
@@ -95,7 +95,7 @@ def test_bad_waivers_file_is_one_line(tmp_path: Path, capsys) -> None:
 def test_waivers_file_round_trip(tmp_path: Path) -> None:
     path = tmp_path / "w.toml"
     path.write_text(
-        '[[waiver]]\nrule = "logic.pin-current"\nsubject = "pin D5"\njustification = "j"\n'
+        '[[waiver]]\nrule = "logic.pin-current"\nsubject = "pin P5"\njustification = "j"\n'
         'accepted_by = "a"\ndate = 2026-11-30\n'
     )
     loaded = load_waivers(path)
