@@ -185,6 +185,49 @@ def in_process_phases(sample: Path, repeats: int = 300) -> list[tuple[str, list[
     return list(rows.items())
 
 
+def fleet_seconds(sample: Path, builds: int, jobs: int) -> float:
+    """One ``firstride review FOLDER -o DIR --jobs N`` process over ``builds`` copies of the
+    sample: the club officer's fleet before an event."""
+    import shutil
+    import tempfile
+
+    with tempfile.TemporaryDirectory() as folder:
+        fleet = Path(folder) / "fleet"
+        fleet.mkdir()
+        for index in range(builds):
+            shutil.copy(sample, fleet / f"member-{index:04d}.toml")
+        command = [
+            sys.executable,
+            "-m",
+            "reviewer",
+            "review",
+            str(fleet),
+            "-o",
+            str(Path(folder) / "out"),
+            "--jobs",
+            str(jobs),
+        ]
+        start = time.perf_counter()
+        subprocess.run(command, check=False, env=process_environment(), **QUIET)
+        return time.perf_counter() - start
+
+
+def sweep_rate(sample: Path, points: int) -> float:
+    """Variants per second of the in-process sweep on one core (validated copies, no render)."""
+    import tomllib
+
+    from reviewer.session import open_session
+    from reviewer.sweep import parse_axis, run_sweep
+
+    data = tomllib.loads(sample.read_text(encoding="utf-8"))
+    axis = parse_axis(f"vehicle.mass=5 kg:{5 + points - 1} kg:1 kg", data)
+    session = open_session()
+    run_sweep(data, [axis][:1], session=session)  # warm
+    start = time.perf_counter()
+    run_sweep(data, [axis], session=session)
+    return points / (time.perf_counter() - start)
+
+
 def print_table(title: str, rows: list[tuple[str, list[float]]], unit: str) -> None:
     print(f"\n{title}")
     print(f"  {'step':40s} {'min':>9s} {'median':>9s}  ({unit})")
@@ -198,6 +241,10 @@ def main() -> int:
     parser.add_argument("--seconds", type=float, default=3.0)
     parser.add_argument("--phases", action="store_true", help="also show where the time goes")
     parser.add_argument("--process-steps", metavar="BUILD", help=argparse.SUPPRESS)
+    parser.add_argument("--fleet", type=int, default=0, metavar="N", help="also time a fleet of N")
+    parser.add_argument(
+        "--sweep", type=int, default=0, metavar="N", help="also time N sweep points"
+    )
     args = parser.parse_args()
     if args.process_steps:
         _process_steps(args.process_steps)
@@ -218,6 +265,16 @@ def main() -> int:
     print(f"whole  firstride review:         median {whole * 1000:7.1f} ms over {args.runs} runs")
     print(f"ratio  whole / floor:            {whole / floor:7.2f}  (target <= 2.00)")
     print(f"in-process reviews per second:   {rate:7.1f}  ({ms:.2f} ms each; target >= 200)")
+    if args.fleet:
+        for jobs in (1, 2):
+            seconds = fleet_seconds(sample, args.fleet, jobs)
+            print(
+                f"fleet of {args.fleet} in one command, --jobs {jobs}: {seconds:7.2f} s "
+                f"({args.fleet / seconds:.0f} builds/s; target {args.fleet} within 3 s on 2 cores)"
+            )
+    if args.sweep:
+        rate = sweep_rate(sample, args.sweep)
+        print(f"sweep variants per second (one core): {rate:7.0f}  (target >= 2000)")
     if args.phases:
         print_table("whole process, step by step", process_phases(sample, args.runs), "ms")
         print_table("one in-process review, step by step", in_process_phases(sample), "ms")
