@@ -41,7 +41,7 @@ def drive(pack, winding="0.3 ohm", limit=None, motors=1, **extra):
         ],
     }
     if limit is not None:
-        data["controller"] = {"current_limit": limit}
+        data["controller"] = {"motor_current_limit": limit}
     data.update(extra)
     return data
 

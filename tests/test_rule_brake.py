@@ -35,7 +35,7 @@ KART: dict[str, Any] = {
             "no_load_current": "1 A",
         }
     ],
-    "controller": {"current_limit": "10 A"},
+    "controller": {"motor_current_limit": "10 A"},
     "drivetrain": {
         "motor_pulley_teeth": 12,
         "wheel_pulley_teeth": 60,

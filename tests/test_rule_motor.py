@@ -32,7 +32,7 @@ def build(current_limit: str | None = "10 A", ambient: str = "35 degC", **motor:
         "usage": {"ambient_temperature": ambient},
     }
     if current_limit is not None:
-        data["controller"] = {"current_limit": current_limit}
+        data["controller"] = {"motor_current_limit": current_limit}
     return data
 
 
@@ -184,7 +184,9 @@ def test_default_ambient_is_flagged() -> None:
 
 def test_missing_motor_fields_are_named() -> None:
     motor = {"name": "front", "type": "brushed", "kv": "150 rpm/V"}
-    finding = only(run_rule_on(RULE, {"motors": [motor], "controller": {"current_limit": "5 A"}}))
+    finding = only(
+        run_rule_on(RULE, {"motors": [motor], "controller": {"motor_current_limit": "5 A"}})
+    )
     assert finding.severity is Severity.UNASSESSED
     assert set(finding.missing) == {
         "motors[0].winding_resistance",

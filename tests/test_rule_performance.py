@@ -39,7 +39,7 @@ KART: dict[str, Any] = {
             "rated_current": "30 A",
         }
     ],
-    "controller": {"current_limit": "30 A"},
+    "controller": {"motor_current_limit": "30 A"},
     "drivetrain": {
         "motor_pulley_teeth": 12,
         "wheel_pulley_teeth": 60,
@@ -100,7 +100,7 @@ def test_road_load_check_value_through_the_rule() -> None:
 
 def test_current_limit_below_the_climb_is_fix() -> None:
     # 26.1 A needed against a 20 A limit: the vehicle stalls on the hill
-    finding = climb(kart(controller={"current_limit": "20 A"}))
+    finding = climb(kart(controller={"motor_current_limit": "20 A"}))
     assert finding.severity is Severity.FIX
     assert finding.limit.m_as("A") == pytest.approx(20.0)
     assert "stalls" in finding.rationale
@@ -109,24 +109,28 @@ def test_current_limit_below_the_climb_is_fix() -> None:
 def test_stall_remedies_climb_when_rerun() -> None:
     # torque balance: Kt (20 A - 1 A) x (60 / n) x 0.9 / 0.1 m >= 107.9 N gives n <= 9 teeth;
     # a current limit of ceil(26.1 A) = 27 A also climbs
-    data = kart(controller={"current_limit": "20 A"})
+    data = kart(controller={"motor_current_limit": "20 A"})
     finding = climb(data)
     teeth = re.search(r"motor pulley of (\d+) teeth", finding.remedy or "")
     limit = re.search(r"current limit to at least (\d+) A", finding.remedy or "")
     assert teeth and limit, finding.remedy
     assert int(teeth.group(1)) == 9
     assert int(limit.group(1)) == 27
-    regeared = climb(kart(controller={"current_limit": "20 A"}, drivetrain__motor_pulley_teeth=9))
+    regeared = climb(
+        kart(controller={"motor_current_limit": "20 A"}, drivetrain__motor_pulley_teeth=9)
+    )
     assert regeared.severity is not Severity.FIX
-    unchanged = climb(kart(controller={"current_limit": "20 A"}, drivetrain__motor_pulley_teeth=10))
+    unchanged = climb(
+        kart(controller={"motor_current_limit": "20 A"}, drivetrain__motor_pulley_teeth=10)
+    )
     assert unchanged.severity is Severity.FIX
-    assert climb(kart(controller={"current_limit": "27 A"})).severity is not Severity.FIX
-    assert climb(kart(controller={"current_limit": "26 A"})).severity is Severity.FIX
+    assert climb(kart(controller={"motor_current_limit": "27 A"})).severity is not Severity.FIX
+    assert climb(kart(controller={"motor_current_limit": "26 A"})).severity is Severity.FIX
 
 
 def test_ratio_remedy_climbs_when_rerun() -> None:
     drivetrain = {"ratio": 5.0, "wheel_diameter": "200 mm", "efficiency": "90 %"}
-    data = kart(controller={"current_limit": "20 A"}, drivetrain=drivetrain)
+    data = kart(controller={"motor_current_limit": "20 A"}, drivetrain=drivetrain)
     finding = climb(data)
     match = re.search(r"reduction of at least ([\d.]+):1", finding.remedy or "")
     assert match, finding.remedy
@@ -134,7 +138,7 @@ def test_ratio_remedy_climbs_when_rerun() -> None:
     # torque balance as above: the least reduction is 107.9 x 0.1 / (0.9 Kt x 19 A) = 6.61
     assert ratio == pytest.approx(6.61, abs=0.01)
     rerun = climb(
-        kart(controller={"current_limit": "20 A"}, drivetrain={**drivetrain, "ratio": ratio})
+        kart(controller={"motor_current_limit": "20 A"}, drivetrain={**drivetrain, "ratio": ratio})
     )
     assert rerun.severity is not Severity.FIX
 
@@ -174,12 +178,14 @@ def test_voltage_limited_drive_that_cannot_climb_at_any_gearing() -> None:
 def test_steepest_grade_figure_is_where_the_climb_just_holds() -> None:
     # the reported steepest grade, fed back as the grade ridden, needs the drive's whole
     # current at walking pace (the 20 A limit)
-    data = kart(controller={"current_limit": "20 A"})
+    data = kart(controller={"motor_current_limit": "20 A"})
     _, figures, _ = rule_outputs(RULE, data)
     (figure,) = [f for f in figures if f.name.startswith("steepest grade held")]
     grade = figure.value.m_as("percent")
     assert 0 < grade < 10
-    at_limit = climb(kart(controller={"current_limit": "20 A"}, usage__steepest_grade=f"{grade} %"))
+    at_limit = climb(
+        kart(controller={"motor_current_limit": "20 A"}, usage__steepest_grade=f"{grade} %")
+    )
     assert at_limit.measured.m_as("A") == pytest.approx(20.0, rel=1e-6)
     assert at_limit.severity is not Severity.FIX
 
@@ -217,5 +223,5 @@ def test_missing_rated_current_is_unassessed_when_it_climbs() -> None:
     assert finding.severity is Severity.UNASSESSED
     assert finding.missing == ("motors[0].rated_current",)
     # a stall needs no rating to judge
-    data["controller"]["current_limit"] = "20 A"
+    data["controller"]["motor_current_limit"] = "20 A"
     assert climb(data).severity is Severity.FIX

@@ -39,7 +39,7 @@ def build(*fuses, gauge=12, limit="12 A", cell_resistance="0.03 ohm", parallel=1
         "usage": {"ambient_temperature": "30 degC"},
     }
     if limit is not None:
-        data["controller"] = {"current_limit": limit}
+        data["controller"] = {"motor_current_limit": limit}
     return data
 
 

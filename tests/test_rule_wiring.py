@@ -51,7 +51,7 @@ def build(*wires, winding="0.3 ohm", **extra):
 
 
 def limit(amps="20 A", response="10 ms"):
-    return {"current_limit": amps, "current_limit_response": response}
+    return {"motor_current_limit": amps, "current_limit_response": response}
 
 
 def on(findings: list[Finding], subject: str) -> Finding:
