@@ -7,15 +7,15 @@ finding's numbers and the build's fields, so a re-review after a change needs on
 from __future__ import annotations
 
 import json
+import math
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from reviewer.errors import InputError
 from reviewer.export import FORMAT_NAME, FORMAT_VERSION, finding_json, flatten_fields
-from reviewer.findings import Finding
-
-_MAX_PREVIOUS_BYTES = 20_000_000
+from reviewer.findings import Finding, Severity
+from reviewer.inputs import MAX_REVIEW_BYTES, load_json, read_text
 
 
 @dataclass(frozen=True)
@@ -63,27 +63,54 @@ class Changes:
 
 
 def load_previous(path: str | Path) -> dict[str, Any]:
+    """A previous review's JSON form, its shape checked so comparing it cannot fail: every
+    part :func:`compare` reads is there and of the right type, or one InputError names it."""
     where = str(path)
-    try:
-        raw = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise InputError(where, "(file)", "an existing review in JSON form") from None
-    except OSError as exc:
-        raise InputError(where, "(file)", f"a readable file ({exc.strerror})") from None
-    if len(raw) > _MAX_PREVIOUS_BYTES:
-        raise InputError(where, "(file)", "a review JSON file of sensible size")
-    try:
-        data = json.loads(raw)
-    except (UnicodeDecodeError, json.JSONDecodeError):
-        raise InputError(where, "(file)", "a review written with --format json") from None
+    text = read_text(path, "review in JSON form", limit=MAX_REVIEW_BYTES)
+    data = load_json(text, where, "a review written with --format json")
     if not isinstance(data, dict) or data.get("format") != FORMAT_NAME:
         raise InputError(where, "format", f"{FORMAT_NAME!r}: a review written with --format json")
     if data.get("format_version") != FORMAT_VERSION:
         raise InputError(where, "format_version", f"{FORMAT_VERSION} (this firstride's format)")
     for key, kind in (("findings", list), ("build", dict), ("verdict", str)):
         if not isinstance(data.get(key), kind):
-            raise InputError(where, key, f"a {kind.__name__}")
+            raise InputError(where, key, f"a JSON {_JSON_NAMES[kind]}")
+    build = data["build"]
+    if not isinstance(build.get("fields", {}), dict):
+        raise InputError(where, "build.fields", "a JSON object of field names and values")
+    if not isinstance(build.get("sha256", ""), str):
+        raise InputError(where, "build.sha256", "a string")
+    for index, entry in enumerate(data["findings"]):
+        _check_finding(entry, f"findings[{index}]", where)
     return data
+
+
+_JSON_NAMES = {list: "array", dict: "object", str: "string"}
+_SEVERITIES = frozenset(s.value for s in Severity)
+
+
+def _check_finding(entry: object, field: str, where: str) -> None:
+    if not isinstance(entry, dict):
+        raise InputError(where, field, "a JSON object (a finding)")
+    for key in ("rule_id", "subject"):
+        if not isinstance(entry.get(key), str):
+            raise InputError(where, f"{field}.{key}", "a string")
+    if entry.get("severity") not in _SEVERITIES:
+        raise InputError(where, f"{field}.severity", "one of " + ", ".join(sorted(_SEVERITIES)))
+    measured = entry.get("measured")
+    if measured is None:
+        return
+    if not isinstance(measured, dict):
+        raise InputError(where, f"{field}.measured", "null or a JSON object")
+    if "text" in measured:
+        if not isinstance(measured["text"], str):
+            raise InputError(where, f"{field}.measured.text", "a string")
+        return
+    value = measured.get("value")
+    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value):
+        raise InputError(where, f"{field}.measured.value", "a finite number")
+    if not isinstance(measured.get("unit"), str):
+        raise InputError(where, f"{field}.measured.unit", "a string")
 
 
 def _measured_text(entry: dict[str, Any] | None) -> str:

@@ -44,14 +44,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = parser.parse_args(argv)
     try:
         return int(modules[args.verb].run(args))  # type: ignore[attr-defined]
-    except InputError as exc:
-        print(f"firstride: {exc}", file=sys.stderr)
-        return EXIT_INPUT
-    except ValueError as exc:
-        from reviewer.signing_keys import SigningError
-
-        if not isinstance(exc, SigningError):
-            raise
+    except InputError as exc:  # SigningError too; str() makes the line safe to print
         print(f"firstride: {exc}", file=sys.stderr)
         return EXIT_INPUT
     except KeyboardInterrupt:

@@ -8,6 +8,7 @@ from typing import TYPE_CHECKING, Any
 
 from reviewer import __version__
 from reviewer.build import Build
+from reviewer.finding_checks import checked_outputs, unassessed
 from reviewer.findings import (
     Assumption,
     DerivedFigure,
@@ -19,7 +20,14 @@ from reviewer.findings import (
 from reviewer.profile import MissingLimit, Profile
 from reviewer.rule import Rule
 from reviewer.setup_checks import setup_findings
-from reviewer.watchdog import Outcome, RuleTimeout, call_each_with_budget
+from reviewer.watchdog import (
+    DEFAULT_REVIEW_BUDGET_S,
+    Outcome,
+    ReviewTimeout,
+    RuleTimeout,
+    call_each_with_budget,
+    stdout_to_stderr,
+)
 
 if TYPE_CHECKING:  # waivers are imported when a review has some: most reviews have none
     from reviewer.changes import Changes
@@ -70,56 +78,50 @@ class Review:
 
 
 def run_rule(rule: Rule, build: Build, profile: Profile) -> list[object]:
-    """One rule, fenced: whatever it raises or returns wrongly, or a run over the profile's
-    time budget (reviewer.watchdog), becomes an unassessed finding."""
+    """One rule, fenced: whatever it raises (any BaseException) or returns wrongly, a finding
+    the engine cannot trust (reviewer.finding_checks), or a run over the profile's time budget
+    (reviewer.watchdog), becomes an unassessed finding."""
     return run_rules([rule], build, profile)[0]
 
 
 def run_rules(rules: Sequence[Rule], build: Build, profile: Profile) -> list[list[object]]:
     """Each rule's outputs, fenced as :func:`run_rule` says; the rules run in order on one
-    worker thread, each within the profile's ``rule_time_budget``."""
+    worker thread, each within the profile's ``rule_time_budget`` and all of them within the
+    review's, with stdout pointed at stderr so a printing rule cannot corrupt the review."""
     checks = [_collector(rule, build, profile) for rule in rules]
-    outcomes = call_each_with_budget(checks, profile.rule_time_budget)
+    total = getattr(profile, "review_time_budget", DEFAULT_REVIEW_BUDGET_S)
+    with stdout_to_stderr():
+        outcomes = call_each_with_budget(checks, profile.rule_time_budget, total)
     return [_fenced(rule, outcome) for rule, outcome in zip(rules, outcomes, strict=True)]
 
 
 def _collector(rule: Rule, build: Build, profile: Profile) -> Callable[[], object]:
-    return lambda: list(rule.check(build, profile))
+    # checked on the worker too, so even reading a rule's findings is within its budget
+    return lambda: checked_outputs(rule, rule.check(build, profile))
 
 
 def _fenced(rule: Rule, outcome: Outcome) -> list[object]:
     error = outcome.error
-    if isinstance(error, RuleTimeout):
-        return [_unassessed(rule, str(error))]
+    if isinstance(error, RuleTimeout | ReviewTimeout):
+        return [unassessed(rule, str(error))]
     if isinstance(error, MissingLimit):
-        return [_unassessed(rule, f"the profile lacks a limit this rule needs: {error}")]
+        return [unassessed(rule, f"the profile lacks a limit this rule needs: {error}")]
     if error is not None:  # a crashing rule must never let a review pass
-        return [_unassessed(rule, f"the rule failed to run: {type(error).__name__}: {error}")]
+        return [unassessed(rule, f"the rule failed to run: {_described(error)}")]
     outputs = outcome.value
-    assert isinstance(outputs, list)
-    stamped: list[object] = []
-    for item in outputs:
-        if isinstance(item, Finding):
-            stamped.append(item.stamped(rule.id, rule.title))
-        elif isinstance(item, DerivedFigure | Assumption):
-            stamped.append(item)
-        else:
-            return [_unassessed(rule, f"the rule returned {type(item).__name__}, not a finding")]
-    if not any(isinstance(item, Finding) for item in stamped):
-        stamped.append(_unassessed(rule, "the rule returned no finding"))
-    return stamped
+    if not isinstance(outputs, list):  # cannot happen: checked_outputs gives a list
+        return [unassessed(rule, "the rule's outputs could not be read")]
+    return outputs
 
 
-def _unassessed(rule: Rule, error: str) -> Finding:
-    return Finding(
-        severity=Severity.UNASSESSED,
-        subject="(whole rule)",
-        rationale=error,
-        error=error,
-        rule_id=rule.id,
-        title=rule.title,
-        sources=rule.sources,
-    )
+def _described(error: BaseException) -> str:
+    """``Type: message`` of a rule's exception, short, even if its ``str()`` fails."""
+    try:
+        message = str(error)
+    except Exception:  # noqa: BLE001 - an exception that cannot describe itself
+        message = "(its message cannot be read)"
+    text = f"{type(error).__name__}: {message}" if message else type(error).__name__
+    return text if len(text) <= 300 else text[:299] + "…"
 
 
 def review(

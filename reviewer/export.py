@@ -16,6 +16,7 @@ import pint
 
 from reviewer.engine import Review
 from reviewer.findings import Finding, Severity
+from reviewer.units import unit_symbol
 
 FORMAT_NAME = "firstride-review"
 FORMAT_VERSION = 1
@@ -23,7 +24,7 @@ FORMAT_VERSION = 1
 
 @lru_cache(maxsize=256)
 def _unit_text(units: pint.Unit) -> str:
-    return f"{units:~C}"
+    return unit_symbol(units, compact=True)  # the project's table, not pint's formatter
 
 
 def quantity_json(value: object) -> dict[str, Any] | None:

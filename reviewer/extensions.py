@@ -7,7 +7,7 @@ describes its table with a pydantic model of its own (``firstride_build_extensio
 validates every table before the rules run; a rule reads its pack's table with
 :func:`extension`.
 
-Quantities in a pack's model use :class:`reviewer.units.QuantityField`, exactly as the core
+Quantities in a pack's model use :class:`reviewer.quantity_text.QuantityField`, exactly as the core
 model does, so ``"95 mm"`` is parsed once, strictly, into a pint quantity.
 """
 

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import hashlib
-import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -12,8 +11,9 @@ from pydantic import BaseModel, ValidationError
 
 from reviewer.build import Build
 from reviewer.errors import InputError
+from reviewer.inputs import MAX_INPUT_BYTES, decode, load_toml, read_bytes
 
-MAX_BUILD_BYTES = 1_000_000
+MAX_BUILD_BYTES = MAX_INPUT_BYTES
 
 
 @dataclass(frozen=True)
@@ -25,31 +25,16 @@ class LoadedBuild:
 
 
 def load_build(path: str | Path) -> LoadedBuild:
-    where = str(path)
-    try:
-        raw = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise InputError(where, "(file)", "an existing build file") from None
-    except IsADirectoryError:
-        raise InputError(where, "(file)", "a build file, not a folder") from None
-    except OSError as exc:
-        raise InputError(where, "(file)", f"a readable file ({exc.strerror})") from None
-    return parse_build(raw, where)
+    return parse_build(read_bytes(path, "build file"), str(path))  # regular files only
 
 
 def parse_build(raw: bytes, where: str) -> LoadedBuild:
     if len(raw) > MAX_BUILD_BYTES:
-        raise InputError(where, "(file)", f"a build file under {MAX_BUILD_BYTES} bytes")
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError:
-        raise InputError(where, "(file)", "UTF-8 text") from None
+        raise InputError(where, "(file)", f"a build file of at most {MAX_BUILD_BYTES} bytes")
+    text = decode(raw, where, "a build file")
     if not text.strip():
         raise InputError(where, "(file)", "a TOML build file; this one is empty")
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(where, "(file)", f"valid TOML ({exc})") from None
+    data = load_toml(text, where)  # its nesting checked before it is parsed
     try:
         build = Build.model_validate(data)
     except ValidationError as exc:

@@ -31,6 +31,7 @@ from typing import Any
 
 import pint
 
+from reviewer import quantity_text as qt
 from reviewer import units as u
 from reviewer.engineering.ingress import IngressCode, parse_ip_code
 from reviewer.errors import InputError
@@ -163,7 +164,7 @@ def _parse_limit(key: str, table: dict[str, Any], where: str) -> Limit:
         value = float(raw)
     elif isinstance(raw, str) and raw[:1].isdigit():
         try:
-            value = u.parse_quantity(raw, _guess_dimension(raw))
+            value = qt.parse_quantity(raw, _guess_dimension(raw))
         except u.QuantityError as exc:
             raise InputError(where, f"limits.{key}.value", str(exc)) from None
     elif isinstance(raw, str) and _IP_LIKE.match(raw):
@@ -180,7 +181,7 @@ def _parse_limit(key: str, table: dict[str, Any], where: str) -> Limit:
 
 def _guess_dimension(text: str) -> u.Dimension:
     """A profile value's dimension is whatever its unit says; parse with a permissive spec."""
-    match = u._QUANTITY_RE.match(text)
+    match = qt.QUANTITY_RE.match(text)
     unit = match["unit"].replace("^", "**") if match else "dimensionless"
     try:
         units = u.unit(unit)  # cached: profiles repeat a handful of units
@@ -264,7 +265,7 @@ def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
     budget = None
     if "rule_time_budget" in meta:
         try:
-            budget = u.parse_quantity(meta["rule_time_budget"], _BUDGET).m_as("s")
+            budget = qt.parse_quantity(meta["rule_time_budget"], _BUDGET).m_as("s")
         except u.QuantityError as exc:
             raise InputError(where, "profile.rule_time_budget", str(exc)) from None
     own = Profile(
@@ -380,15 +381,11 @@ def _built_in_text() -> str:
 
 
 def _read_text(where: str, field: str = "(file)", referrer: str = "") -> str:
-    reported = referrer or where
-    try:
-        return Path(where).read_text("utf-8")
-    except FileNotFoundError:
-        raise InputError(
-            reported, field, f"an existing profile file ({where} does not exist)"
-        ) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(reported, field, f"a readable UTF-8 text file ({exc})") from None
+    """A profile's text: a regular file of at most 1 MiB, UTF-8, nested no deeper than
+    reviewer.inputs allows (checked before it is parsed); errors name ``referrer`` if given."""
+    from reviewer.inputs import read_text
+
+    return read_text(where, "profile file", syntax="toml", field=field, reported=referrer or None)
 
 
 def load_profile(path: str | Path | None = None) -> Profile:

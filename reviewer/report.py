@@ -32,6 +32,28 @@ _MD_TABLE.update({ord("<"): "&lt;", ord(">"): "&gt;", ord("&"): "&amp;"})
 _MD_TABLE.update({ord(c): " " for c in "\r\n\t"})
 _MD_TABLE.update({c: None for c in range(32) if chr(c) not in "\r\n\t"})
 _MD_TABLE.update({0x7F: None, 0x2028: " ", 0x2029: " "})
+# U+0085 (next line) ends a line for str.splitlines and some viewers, as U+2028/2029 do: a
+# space. The other C1 controls, bidi embeddings, overrides, isolates and marks (which can
+# show a name reversed or a number changed), zero-width and other invisible format characters
+# (which make two different names look the same): removed.
+_MD_TABLE[0x85] = " "
+_INVISIBLE_RANGES = (
+    (0x80, 0x9F),
+    (0xAD, 0xAD),
+    (0x061C, 0x061C),
+    (0x180E, 0x180E),
+    (0x200B, 0x200F),
+    (0x202A, 0x202E),
+    (0x2060, 0x2064),
+    (0x2066, 0x206F),
+    (0xFEFF, 0xFEFF),
+    (0xFFF9, 0xFFFB),
+    (0x1D173, 0x1D17A),
+    (0xE0001, 0xE0001),
+    (0xE0020, 0xE007F),
+)
+for _low, _high in _INVISIBLE_RANGES:
+    _MD_TABLE.update({c: None for c in range(_low, _high + 1) if c != 0x85})
 #: Any character the table changes: most text has none, and a search in C is far cheaper than
 #: ``str.translate`` looking every character up in the table.
 _MD_SPECIAL = re.compile("[" + "".join(re.escape(chr(c)) for c in sorted(_MD_TABLE)) + "]")

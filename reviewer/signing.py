@@ -17,7 +17,6 @@ import base64
 import binascii
 import hashlib
 import re
-import unicodedata
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from datetime import UTC, datetime
@@ -33,6 +32,7 @@ from reviewer.signing_keys import (
     load_public_key,
     public_key_bytes,
 )
+from reviewer.signing_names import escaped, name_problem, normalised, read_name
 
 __all__ = [
     "SignatureCheck",
@@ -53,7 +53,6 @@ MARKER = (
     "<!-- firstride signature section: the signed review body is every byte above this line -->"
 )
 SECTION_OPENING = MARKER + "\n\n## Signatures\n"
-MAX_NAME_LENGTH = 80
 TIME_FORMAT = "%Y-%m-%dT%H:%M:%SZ"
 
 SIGNER, ROLE, SIGNED_AT = "Signer", "Role", "Signed at (UTC)"
@@ -88,11 +87,6 @@ _SPELLING = {
     "signature": (re.compile(r"`([A-Za-z0-9+/]{86}==)`"), "base64 of 64 bytes in backticks"),
 }
 _STRAY = re.compile(r"^### Signature [0-9]|^- Signature: |" + re.escape(MARKER), re.M)
-_BACKSLASHED = frozenset("\\`*_{}[]#|~!")
-_ENTITIES = {"<": "&lt;", ">": "&gt;", "&": "&amp;"}
-_UNESCAPE = re.compile(r"\\(.)|&(lt|gt|amp);")
-_REJECTED_CATEGORIES = frozenset({"Cc", "Cs", "Co", "Zl", "Zp"})
-_ALLOWED_FORMAT_CHARS = frozenset({"\u200c", "\u200d"})  # joiners some scripts need in names
 
 
 @dataclass(frozen=True)
@@ -132,42 +126,17 @@ def stated_build_fingerprint(body: str) -> str:
     return found.pop()
 
 
-def _escape(value: str) -> str:
-    return "".join("\\" + c if c in _BACKSLASHED else _ENTITIES.get(c, c) for c in value)
-
-
-def _name_problem(value: str) -> str | None:
-    if not value:
-        return "is empty"
-    if len(value) > MAX_NAME_LENGTH:
-        return f"is longer than {MAX_NAME_LENGTH} characters"
-    if value != value.strip():
-        return "starts or ends with white space"
-    for char in value:
-        category = unicodedata.category(char)
-        if category in _REJECTED_CATEGORIES or (
-            category == "Cf" and char not in _ALLOWED_FORMAT_CHARS
-        ):
-            return f"contains a control or invisible character (U+{ord(char):04X})"
-    return None
-
-
 def _show(name: str, value: str) -> str:
     """How a field's value is written in the block."""
     kind = FIELDS[name]
-    return _escape(value) if kind == "name" else value if kind == "time" else f"`{value}`"
+    return escaped(value) if kind == "name" else value if kind == "time" else f"`{value}`"
 
 
 def _read(name: str, shown: str) -> str:
     """Undo :func:`_show`, accepting only the one spelling it writes; ValueError says why not."""
     kind = FIELDS[name]
     if kind == "name":
-        entities = {"lt": "<", "gt": ">", "amp": "&"}
-        value = _UNESCAPE.sub(lambda m: m.group(1) or entities[m.group(2)], shown)
-        problem = _name_problem(value)
-        if problem or _escape(value) != shown:
-            raise ValueError(f"{name} {problem or 'is not escaped as signing writes it'}")
-        return value
+        return read_name(name, shown)
     pattern, spelling = _SPELLING[kind]
     match = pattern.fullmatch(shown)
     if match is None or not _canonical(kind, match.group(match.lastindex or 0)):
@@ -282,9 +251,9 @@ def sign_review(
     """
     if not isinstance(private_key, Ed25519PrivateKey):
         raise SigningError("the signing key is not an Ed25519 private key")
-    signer, role = signer.strip(), role.strip()
+    signer, role = normalised(signer), normalised(role)  # the one spelling verify accepts
     for what, value in (("signer", signer), ("role", role)):
-        problem = _name_problem(value)
+        problem = name_problem(value)
         if problem:
             raise SigningError(f"the {what} {problem}")
     if now.tzinfo is None or now.utcoffset() is None:

@@ -3,18 +3,39 @@
 from __future__ import annotations
 
 import hashlib
-import os
 from pathlib import Path
 
 from cryptography.exceptions import UnsupportedAlgorithm
 from cryptography.hazmat.primitives import serialization
 from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey, Ed25519PublicKey
 
-MAX_KEY_FILE_BYTES = 64 * 1024
+from reviewer.errors import MAX_EXPECTED, InputError, shown
+from reviewer.inputs import MAX_KEY_BYTES, read_bytes
+
+MAX_KEY_FILE_BYTES = MAX_KEY_BYTES
 
 
-class SigningError(ValueError):
-    """A key, review or signature problem, stated in one line for the command-line edge."""
+class SigningError(InputError, ValueError):
+    """A key, review or signature problem, stated in one line for the command-line edge.
+
+    An :class:`InputError` (exit status 2, one line), still a ValueError for older callers.
+    Raised deep in the signing code it may not know the file yet: :meth:`at` names it."""
+
+    def __init__(self, expected: str, file: str = "", field: str = "") -> None:
+        super().__init__(file, field, expected)
+
+    def at(self, file: str, field: str) -> SigningError:
+        """This error naming ``file`` and ``field``, unless it names a file already."""
+        if self.file:
+            return self
+        located = SigningError(self.expected, file, field)
+        located.__suppress_context__ = True
+        return located
+
+    def __str__(self) -> str:
+        if self.file:
+            return super().__str__()
+        return shown(self.expected, MAX_EXPECTED)
 
 
 def public_key_bytes(public_key: Ed25519PublicKey) -> bytes:
@@ -29,15 +50,20 @@ def key_fingerprint(public_key: Ed25519PublicKey) -> str:
 def generate_key_pair(private_path: Path | str, public_path: Path | str) -> str:
     """Write a new key pair and return its fingerprint; never overwrites an existing file.
 
-    The private key file gets mode 0o600 in the call that creates it, so it is never readable
-    by others, not even for an instant.
+    The private key file gets mode 0o600 (less the umask) in the call that creates it, so it
+    is never readable by others, not even for an instant; the public key 0o644 less the umask.
+    Both are flushed to the disk; on any failure neither is left behind.
     """
     private_path, public_path = Path(private_path), Path(public_path)
     if private_path.resolve() == public_path.resolve():
         raise SigningError("the private and public key files must be different paths")
     for path in (private_path, public_path):
         if path.exists() or path.is_symlink():
-            raise SigningError(f"{path}: already exists; refusing to overwrite a key file")
+            raise SigningError(
+                "a new path; it already exists (refusing to overwrite a key file)",
+                str(path),
+                "(key file)",
+            )
     key = Ed25519PrivateKey.generate()
     private_pem = key.private_bytes(
         serialization.Encoding.PEM,
@@ -57,52 +83,46 @@ def generate_key_pair(private_path: Path | str, public_path: Path | str) -> str:
 
 
 def _write_new_file(path: Path, data: bytes, mode: int) -> None:
+    from reviewer.output import write_new  # only keygen writes keys
+
     try:
-        descriptor = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL, mode)
-    except FileExistsError:
-        raise SigningError(f"{path}: already exists; refusing to overwrite a key file") from None
-    except OSError as error:
-        raise SigningError(f"{path}: cannot create the key file: {error.strerror}") from None
+        write_new(path, data, mode)
+    except InputError as error:
+        expected = error.expected.replace("it already exists", "it already exists (a key file?)")
+        raise SigningError(expected, error.file, "(key file)") from None
+
+
+def _read_key_file(path: Path | str, field: str) -> bytes:
+    """A key file's bytes: a regular file of at most MAX_KEY_FILE_BYTES (reviewer.inputs)."""
     try:
-        with os.fdopen(descriptor, "wb") as handle:
-            handle.write(data)
-    except OSError as error:
-        path.unlink(missing_ok=True)
-        raise SigningError(f"{path}: cannot write the key file: {error.strerror}") from None
+        return read_bytes(path, "key file", field=field, limit=MAX_KEY_FILE_BYTES)
+    except InputError as error:
+        raise SigningError(error.expected, error.file, error.field) from None
 
 
-def _read_key_file(path: Path | str) -> bytes:
-    try:
-        with open(path, "rb") as handle:
-            data = handle.read(MAX_KEY_FILE_BYTES + 1)
-    except OSError as error:
-        raise SigningError(f"{path}: cannot read the key file: {error.strerror}") from None
-    if len(data) > MAX_KEY_FILE_BYTES:
-        raise SigningError(f"{path}: too large to be a key file")
-    return data
-
-
-def load_private_key(path: Path | str) -> Ed25519PrivateKey:
-    data = _read_key_file(path)
+def load_private_key(path: Path | str, field: str = "--key") -> Ed25519PrivateKey:
+    data = _read_key_file(path, field)
+    where = str(path)
     try:
         key = serialization.load_pem_private_key(data, password=None)
     except TypeError:
         raise SigningError(
-            f"{path}: the private key is encrypted; use an unencrypted key"
+            "an unencrypted key; the private key is encrypted", where, field
         ) from None
     except (ValueError, UnsupportedAlgorithm):
-        raise SigningError(f"{path}: not a PEM private key") from None
+        raise SigningError("a key file from keygen; not a PEM private key", where, field) from None
     if not isinstance(key, Ed25519PrivateKey):
-        raise SigningError(f"{path}: not an Ed25519 private key")
+        raise SigningError("a key file from keygen; not an Ed25519 private key", where, field)
     return key
 
 
-def load_public_key(path: Path | str) -> Ed25519PublicKey:
-    data = _read_key_file(path)
+def load_public_key(path: Path | str, field: str = "--trust") -> Ed25519PublicKey:
+    data = _read_key_file(path, field)
+    where = str(path)
     try:
         key = serialization.load_pem_public_key(data)
     except (ValueError, UnsupportedAlgorithm):
-        raise SigningError(f"{path}: not a PEM public key") from None
+        raise SigningError("a .pub file from keygen; not a PEM public key", where, field) from None
     if not isinstance(key, Ed25519PublicKey):
-        raise SigningError(f"{path}: not an Ed25519 public key")
+        raise SigningError("a .pub file from keygen; not an Ed25519 public key", where, field)
     return key

@@ -1,23 +1,25 @@
-"""One unit registry for the whole process, and the strict gate that turns text into quantities.
+"""One unit registry for the whole process: quantities carried as values, converted to floats
+in a named unit, and written back as text.
 
-pint's own expression parser evaluates arithmetic (``9**9**9 V`` can hang it, ``1/0 V`` raises
-ZeroDivisionError), so build files never reach it. A quantity string must match a strict
-pattern: one decimal number, then a unit made of names joined by ``*``, ``/`` or spaces with
-small integer exponents. Only the unit part goes to pint, as units, never as an expression.
+The strict gate that turns build-file text into quantities (and the pydantic field type that
+applies it) is :mod:`reviewer.quantity_text`; :class:`Dimension` and the table of dimensions
+at the end of this module say what each field measures and the physical range it accepts.
+
+Unit text in a review comes from firstride's own table (:func:`unit_symbol`), never from
+pint's formatter, whose output has changed between versions: a review's bytes (and so its
+signatures and ``--since`` comparisons) do not depend on the installed pint.
 """
 
 from __future__ import annotations
 
 import math
-import re
-from collections.abc import Callable
 from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
 import pint
-from pydantic import GetCoreSchemaHandler, GetJsonSchemaHandler
-from pydantic_core import PydanticCustomError, core_schema
+
+from reviewer.unit_text import unit_text
 
 
 def _registry() -> pint.UnitRegistry:
@@ -130,14 +132,6 @@ def _new_quantity(magnitude: float, units: Any) -> pint.Quantity:
     return made
 
 
-_NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d{1,3})?"
-_UNIT_NAME = r"(?:[A-Za-z_°µΩ%]+)"
-_EXPONENT = r"(?:(?:\^|\*\*)-?[1-4])?"
-_FACTOR = _UNIT_NAME + _EXPONENT
-_UNIT = rf"{_FACTOR}(?:\s*(?:[*/·]|\s)\s*{_FACTOR})*"
-_QUANTITY_RE = re.compile(rf"^\s*(?P<number>{_NUMBER})\s*(?P<unit>{_UNIT})\s*$")
-
-
 class QuantityError(ValueError):
     """A quantity string that is not a number followed by a unit of the expected kind."""
 
@@ -168,142 +162,18 @@ def _reference(unit_text: str) -> pint.Quantity:
     return ref
 
 
-def parse_quantity(text: object, dimension: Dimension) -> pint.Quantity:
-    """Parse ``"24 V"`` into a quantity in the dimension's unit, or raise QuantityError."""
-    if not isinstance(text, str):
-        raise QuantityError(
-            f"expected {dimension.what} as a string with a unit, e.g. {dimension.example!r}"
-        )
-    if len(text) > MAX_QUANTITY_TEXT:
-        raise QuantityError(f"quantity text longer than {MAX_QUANTITY_TEXT} characters")
-    match = _QUANTITY_RE.match(text)
-    if match is None:
-        if re.fullmatch(rf"\s*{_NUMBER}\s*", text):
-            raise QuantityError(
-                f"{text!r} has no unit; expected {dimension.what}, e.g. {dimension.example!r}"
-            )
-        raise QuantityError(
-            f"{text!r} is not a number followed by a unit; expected {dimension.what}, "
-            f"e.g. {dimension.example!r}"
-        )
-    magnitude = float(match["number"])
-    if not math.isfinite(magnitude):
-        raise QuantityError(f"{text!r} is not a finite number")
-    try:
-        plan = _unit_plan(match["unit"], dimension.unit)
-    except _UnknownUnit as exc:
-        raise QuantityError(f"unknown unit {match['unit']!r} in {text!r}") from exc.__cause__
-    if plan is None:
-        raise QuantityError(
-            f"{text!r} is not {dimension.what}; expected a unit like {dimension.unit!r}, "
-            f"e.g. {dimension.example!r}"
-        )
-    convert, target = plan
-    value = convert(magnitude)
-    if not math.isfinite(value):
-        raise QuantityError(f"{text!r} is out of range")
-    quantity = _new_quantity(value, target)
-    low, high = dimension.minimum, dimension.maximum
-    if value == 0 and not dimension.allow_zero:
-        raise QuantityError(f"{text!r} must not be zero for {dimension.what}")
-    if low is not None and value < low:
-        raise QuantityError(
-            f"{text!r} is below the physical range for {dimension.what} "
-            f"({low:g} {dimension.unit} to {high:g} {dimension.unit})"
-        )
-    if high is not None and value > high:
-        raise QuantityError(
-            f"{text!r} is above the physical range for {dimension.what} "
-            f"({low:g} {dimension.unit} to {high:g} {dimension.unit})"
-        )
-    return quantity
-
-
-class QuantityField:
-    """Annotated marker: ``Annotated[pint.Quantity, QuantityField(VOLTAGE)]``."""
-
-    def __init__(self, dimension: Dimension) -> None:
-        self.dimension = dimension
-
-    def __get_pydantic_core_schema__(
-        self, source: Any, handler: GetCoreSchemaHandler
-    ) -> core_schema.CoreSchema:
-        dimension = self.dimension
-
-        def validate(value: Any) -> pint.Quantity:
-            if isinstance(value, pint.Quantity):
-                value = f"{value.magnitude} {value.units:~}"
-            try:
-                return parse_quantity(value, dimension)
-            except QuantityError as exc:
-                raise PydanticCustomError("quantity", str(exc)) from None
-
-        return core_schema.no_info_plain_validator_function(
-            validate,
-            serialization=core_schema.plain_serializer_function_ser_schema(format_quantity),
-        )
-
-    def __get_pydantic_json_schema__(
-        self, schema: core_schema.CoreSchema, handler: GetJsonSchemaHandler
-    ) -> dict[str, Any]:
-        d = self.dimension
-        description = f"{d.what} as a number and a unit (a unit like {d.unit})"
-        if d.minimum is not None and d.maximum is not None:
-            description += f"; accepted range {d.minimum:g} to {d.maximum:g} {d.unit}"
-        return {
-            "type": "string",
-            "pattern": re.sub(r"\(\?P<\w+>", "(", _QUANTITY_RE.pattern),  # ECMA-262 form
-            "maxLength": MAX_QUANTITY_TEXT,
-            "examples": [d.example],
-            "description": description,
-            "x-dimension": str(d.reference.dimensionality),
-        }
-
-
-class _UnknownUnit(Exception):
-    """The unit text of a quantity is not a unit of the registry (the cause says why)."""
-
-
 @lru_cache(maxsize=1024)
-def _unit_plan(written: str, target_text: str) -> tuple[Callable[[float], float], Any] | None:
-    """How a magnitude written in the unit ``written`` becomes one in ``target_text``: the
-    float conversion and the target's UnitsContainer; None when the dimensions differ.
-
-    Found once per pair of unit texts, so validating a build costs a dictionary look-up per
-    quantity rather than pint's unit comparison and conversion. Raises :class:`_UnknownUnit`
-    (never cached) for a unit pint does not know."""
-    try:
-        units = unit(written.replace("^", "**").replace("·", "*"))
-    except (pint.PintError, ValueError, TypeError, AttributeError, ArithmeticError) as exc:
-        raise _UnknownUnit(written) from exc
-    if units.dimensionality != _reference(target_text).dimensionality:
-        return None
-    return _converter(units, target_text), unit(target_text)._units
-
-
-@lru_cache(maxsize=1024)
-def _converter(source: pint.Unit, target_text: str) -> Callable[[float], float]:
-    """A float-to-float conversion between two units, found once: pint's own conversion
-    costs tens of microseconds per call. Offset scales (degC, degF) are affine: two points."""
-    target = unit(target_text)
-    at_zero = float(Quantity(0.0, source).to(target).magnitude)
-    at_one = float(Quantity(1.0, source).to(target).magnitude)
-    slope = at_one - at_zero
-    if at_zero == 0.0 and slope == 1.0:
-        return float
-    return lambda value: at_zero + slope * value
-
-
-@lru_cache(maxsize=1024)
-def unit_symbol(units: pint.Unit) -> str:
-    return f"{units:~P}"
+def unit_symbol(units: pint.Unit, compact: bool = False) -> str:
+    """A unit's text as reviews print it, from :mod:`reviewer.unit_text`'s own table: ``m/s²``
+    (``m/s**2`` with ``compact``, the JSON form); never pint's version-dependent formatter."""
+    return unit_text(units._units, compact)
 
 
 @lru_cache(maxsize=1024)
 def _symbol_of(units: Any) -> str:
     """The symbol of a quantity's UnitsContainer, keyed on the container itself: reading
     ``quantity.units`` would build a new pint Unit (and hash it) on every call."""
-    return unit_symbol(ureg.Unit(units))
+    return unit_text(units)
 
 
 def format_quantity(quantity: pint.Quantity | None, digits: int = 3) -> str:
@@ -351,5 +221,6 @@ THERMAL_RESISTANCE = Dimension("K/W", "0.5 K/W", "a thermal resistance", 0.0, 10
 ACCELERATION = Dimension("m/s**2", "3 m/s^2", "an acceleration", 0.0, 100.0)
 GRADE = Dimension("percent", "8 %", "a grade (rise over run)", 0.0, 100.0, allow_zero=True)
 FRACTION = Dimension("percent", "85 %", "a fraction", 0.0, 100.0)
+INDUCTANCE = Dimension("uH", "120 uH", "an inductance", 0.0, 1.0e6)
 ENERGY = Dimension("Wh", "500 Wh", "an energy", 0.0, 1.0e6)
 POWER = Dimension("W", "250 W", "a power", 0.0, 1.0e6)

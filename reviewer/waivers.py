@@ -10,33 +10,52 @@ from __future__ import annotations
 
 import datetime
 import hashlib
-import tomllib
+import unicodedata
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Annotated
 
-from pydantic import BaseModel, ConfigDict, Field, ValidationError
+from pydantic import AfterValidator, BaseModel, ConfigDict, Field, ValidationError
 
-from reviewer.errors import InputError
 from reviewer.findings import Finding, Severity
+from reviewer.inputs import decode, load_toml, read_bytes
 from reviewer.loader import validation_error
 
-Text = Annotated[str, Field(min_length=1, max_length=400)]
+
+def _written(text: str) -> str:
+    """A waiver's words must say something: not only spaces, and no control, bidi or
+    zero-width characters that would make it read differently from what it holds."""
+    if not text.strip():
+        raise ValueError("some words, not only white space")
+    hidden = next((c for c in text if unicodedata.category(c) in ("Cc", "Cf", "Zl", "Zp")), None)
+    if hidden is not None:
+        raise ValueError(f"plain text; U+{ord(hidden):04X} is a control or invisible character")
+    return text
+
+
+def _words(longest: int) -> object:
+    return Annotated[str, Field(min_length=1, max_length=longest), AfterValidator(_written)]
+
+
+Text = _words(400)
 
 
 class Waiver(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True, populate_by_name=True)
+    """One accepted finding. Strict types: a date is a TOML date, never a string or a number
+    (``date = 0`` would otherwise read as 1970-01-01)."""
 
-    rule_id: Annotated[str, Field(min_length=1, max_length=120, alias="rule")]
-    subject: Annotated[str, Field(min_length=1, max_length=200)]
-    justification: Text
-    accepted_by: Annotated[str, Field(min_length=1, max_length=120)]
+    model_config = ConfigDict(extra="forbid", frozen=True, populate_by_name=True, strict=True)
+
+    rule_id: Annotated[_words(120), Field(alias="rule")]  # type: ignore[valid-type]
+    subject: _words(200)  # type: ignore[valid-type]
+    justification: Text  # type: ignore[valid-type]
+    accepted_by: _words(120)  # type: ignore[valid-type]
     date: datetime.date
 
 
 class WaiverFile(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    model_config = ConfigDict(extra="forbid", frozen=True, strict=True)
 
     waiver: list[Waiver] = Field(default_factory=list, max_length=500)
 
@@ -59,18 +78,8 @@ class WaiverNote:
 
 def load_waivers(path: str | Path) -> WaiverSet:
     where = str(path)
-    try:
-        raw = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise InputError(where, "(file)", "an existing waivers file") from None
-    except OSError as exc:
-        raise InputError(where, "(file)", f"a readable file ({exc.strerror})") from None
-    try:
-        data = tomllib.loads(raw.decode("utf-8"))
-    except UnicodeDecodeError:
-        raise InputError(where, "(file)", "UTF-8 text") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(where, "(file)", f"valid TOML ({exc})") from None
+    raw = read_bytes(path, "waivers file")  # regular files only, at most 1 MiB
+    data = load_toml(decode(raw, where, "a waivers file"), where)
     try:
         parsed = WaiverFile.model_validate(data)
     except ValidationError as exc:

@@ -20,19 +20,80 @@ rule. When a function is over its budget:
   sleep) ends only when that call returns. Rules must do no I/O, so this is the rare case.
 
 A budget of 0 runs the functions inline, unfenced against hanging (for stepping through a rule
-in a debugger).
+in a debugger). Whatever a function raises, inline or on the worker, is its outcome, including
+``SystemExit``, ``KeyboardInterrupt``, ``GeneratorExit`` or any other ``BaseException`` a rule
+raises itself: none of them can end the review, let alone end the program with status 0. (A
+Ctrl-C is delivered to the main thread, which waits for the worker, so it still stops a run.)
+
+Besides each rule's budget, the whole list has one (:data:`DEFAULT_REVIEW_BUDGET_S`): when it
+runs out, the running function is abandoned and the ones not yet started are not run; each
+gets :class:`ReviewTimeout` as its outcome.
+
+While rules run (and packs load, see :func:`stdout_to_stderr`) ``sys.stdout`` is pointed at
+stderr, so a rule that prints cannot put text into a review written to stdout.
 """
 
 from __future__ import annotations
 
+import contextlib
+import io
 import queue
+import sys
 import threading
 import time
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 
 #: Seconds a rule may run when the profile sets no ``rule_time_budget``.
 DEFAULT_BUDGET_S = 2.0
+#: Seconds all the rules of one review may take together (a profile may set its own later).
+DEFAULT_REVIEW_BUDGET_S = 60.0
+
+
+class ReviewTimeout(Exception):
+    """The review's whole time budget ran out before this rule finished (or started)."""
+
+    def __init__(self, budget_s: float) -> None:
+        super().__init__(budget_s)
+        self.budget_s = budget_s
+
+    def __str__(self) -> str:
+        return (
+            f"the review ran out of its whole time budget of {self.budget_s:g} s "
+            "before this rule finished"
+        )
+
+
+class _Stderr(io.TextIOBase):
+    """What ``sys.stdout`` is while rules run: writes go to stderr; closing it does nothing,
+    so a rule cannot close the real stderr through it."""
+
+    def write(self, text: str) -> int:
+        return sys.stderr.write(text)
+
+    def flush(self) -> None:
+        sys.stderr.flush()
+
+    def writable(self) -> bool:
+        return True
+
+    def close(self) -> None:
+        pass
+
+
+@contextlib.contextmanager
+def stdout_to_stderr() -> Iterator[None]:
+    """Keep stdout for the review: anything printed meanwhile (by a pack loading, a rule
+    running) goes to stderr instead. Text written to file descriptor 1 directly is not
+    caught; rules must do no I/O at all."""
+    saved = sys.stdout
+    with contextlib.suppress(Exception):
+        saved.flush()
+    sys.stdout = _Stderr()
+    try:
+        yield
+    finally:
+        sys.stdout = saved
 
 
 class RuleTimeout(Exception):
@@ -60,9 +121,10 @@ class Outcome:
 
 
 def _call(function: Callable[[], object]) -> Outcome:
+    """``function()`` inline; whatever it raises is its outcome (see the module docstring)."""
     try:
         return Outcome(function())
-    except Exception as exc:  # noqa: BLE001 - handed back to the engine, which fences it
+    except BaseException as exc:  # noqa: BLE001 - handed back to the engine, which fences it
         return Outcome(error=exc)
 
 
@@ -155,20 +217,32 @@ def _interrupt(worker: _Worker) -> None:
 
 
 def call_each_with_budget(
-    functions: Sequence[Callable[[], object]], budget_s: float
+    functions: Sequence[Callable[[], object]],
+    budget_s: float,
+    total_s: float | None = DEFAULT_REVIEW_BUDGET_S,
 ) -> list[Outcome]:
-    """Each function in order, each within ``budget_s`` seconds; one outcome per function."""
+    """Each function in order, each within ``budget_s`` seconds and all of them within
+    ``total_s`` (None or 0: no total); one outcome per function."""
+    end = None if not total_s or total_s <= 0 else time.monotonic() + total_s
     if budget_s <= 0:
-        return [_call(function) for function in functions]
+        inline: list[Outcome] = []
+        for index, function in enumerate(functions):
+            if end is not None and time.monotonic() >= end:
+                return inline + _out_of_time(len(functions) - index, total_s)
+            inline.append(_call(function))
+        return inline
     outcomes: list[Outcome] = []
     remaining = list(functions)
     while remaining:
+        if end is not None and time.monotonic() >= end:
+            return outcomes + _out_of_time(len(remaining), total_s)
         batch = _Batch(remaining)
         worker = _take_worker()
         worker.jobs.put(batch)
         while True:
             seen = batch.current
-            wait = seen[1] + budget_s - time.monotonic()
+            deadline = seen[1] + budget_s if end is None else min(seen[1] + budget_s, end)
+            wait = deadline - time.monotonic()
             if batch.done.acquire(timeout=max(wait, 0.0)):
                 _give_back(worker)
                 return outcomes + batch.outcomes
@@ -177,9 +251,15 @@ def call_each_with_budget(
         _interrupt(worker)
         stuck = seen[0]
         outcomes += batch.outcomes[:stuck]
+        if end is not None and deadline >= end:  # the whole review's budget ran out
+            return outcomes + _out_of_time(len(remaining) - stuck, total_s)
         outcomes.append(Outcome(error=RuleTimeout(budget_s)))
         remaining = remaining[stuck + 1 :]
     return outcomes
+
+
+def _out_of_time(count: int, total_s: float | None) -> list[Outcome]:
+    return [Outcome(error=ReviewTimeout(total_s or 0.0)) for _ in range(count)]
 
 
 def call_with_budget(function: Callable[[], object], budget_s: float) -> object:

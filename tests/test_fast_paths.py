@@ -19,6 +19,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from reviewer import quantity_text as qt
 from reviewer import units as u
 from reviewer.cli import PROGRAM_GC_THRESHOLD, main
 from reviewer.findings import Comparison, Finding, Severity, Source
@@ -97,12 +98,12 @@ def test_in_unit_across_dimensions_fails_as_pint_does() -> None:
     ],
 )
 def test_parsed_quantity_is_pints_conversion_in_the_fixed_unit(text, dimension) -> None:
-    parsed = u.parse_quantity(text, dimension)
+    parsed = qt.parse_quantity(text, dimension)
     number, _, written = text.partition(" ")
     reference = u.Quantity(float(number), u.unit(written.replace("^", "**"))).to(dimension.unit)
     assert parsed.magnitude == pytest.approx(reference.magnitude, rel=1e-12)
     assert parsed._units is u.unit(dimension.unit)._units  # shared: in_unit needs no conversion
-    assert u.parse_quantity(text, dimension).__dict__ == parsed.__dict__  # again, from the cache
+    assert qt.parse_quantity(text, dimension).__dict__ == parsed.__dict__  # again, from the cache
 
 
 @pytest.mark.parametrize(
@@ -115,7 +116,7 @@ def test_parsed_quantity_is_pints_conversion_in_the_fixed_unit(text, dimension) 
 def test_unit_errors_are_the_same_each_time(text: str, message: str) -> None:
     for _ in range(2):  # the second time, after the first was not cached
         with pytest.raises(u.QuantityError) as caught:
-            u.parse_quantity(text, u.VOLTAGE)
+            qt.parse_quantity(text, u.VOLTAGE)
         assert str(caught.value) == message
 
 

@@ -137,7 +137,9 @@ def test_hot_switch_remedies_each_pass_when_rerun() -> None:
     for data in reruns:
         assert run_rule_on(SWITCH_THERMAL, data)[0].severity is Severity.PASS
     # and the current is the highest tenth of an ampere that passes
-    over = build(switch_thermal_resistance_sink_air="20 K/W", motor_current_limit=f"{amps + 0.1:.1f} A")
+    over = build(
+        switch_thermal_resistance_sink_air="20 K/W", motor_current_limit=f"{amps + 0.1:.1f} A"
+    )
     assert run_rule_on(SWITCH_THERMAL, over)[0].severity is not Severity.PASS
 
 

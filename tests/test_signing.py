@@ -177,7 +177,7 @@ def test_key_loading_errors_are_one_line(tmp_path: Path) -> None:
         )
     )
     cases = [
-        (load_private_key, tmp_path / "missing.key", "cannot read"),
+        (load_private_key, tmp_path / "missing.key", "an existing key file"),
         (load_private_key, garbage, "not a PEM private key"),
         (load_private_key, tmp_path / "a.pub", "not a PEM private key"),
         (load_private_key, ec_file, "not an Ed25519 private key"),

@@ -8,6 +8,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from reviewer import quantity_text as qt
 from reviewer import units as u
 
 
@@ -29,7 +30,7 @@ from reviewer import units as u
     ],
 )
 def test_conversion(text: str, dimension: u.Dimension, expected: float) -> None:
-    quantity = u.parse_quantity(text, dimension)
+    quantity = qt.parse_quantity(text, dimension)
     assert math.isclose(quantity.magnitude, expected, rel_tol=1e-9)
     assert quantity.units == u.unit(dimension.unit)
 
@@ -51,14 +52,14 @@ def test_conversion(text: str, dimension: u.Dimension, expected: float) -> None:
 )
 def test_rejected(text: str) -> None:
     with pytest.raises(u.QuantityError):
-        u.parse_quantity(text, u.VOLTAGE)
+        qt.parse_quantity(text, u.VOLTAGE)
 
 
 @settings(max_examples=300, deadline=None)
 @given(st.text(max_size=80))
 def test_any_text_is_parsed_or_rejected_cleanly(text: str) -> None:
     try:
-        quantity = u.parse_quantity(text, u.VOLTAGE)
+        quantity = qt.parse_quantity(text, u.VOLTAGE)
     except u.QuantityError:
         return
     assert math.isfinite(quantity.magnitude)

@@ -14,6 +14,7 @@ import pint
 from pydantic import BaseModel, ConfigDict, Field, GetCoreSchemaHandler, GetJsonSchemaHandler
 from pydantic_core import PydanticCustomError, core_schema
 
+from reviewer import quantity_text as qt
 from reviewer import units as u
 from reviewer.engineering.conductors import AWG_PATTERN, awg_area, awg_label, parse_awg
 from reviewer.engineering.ingress import IP_PATTERN, IngressCode, parse_ip_code
@@ -28,7 +29,7 @@ Text = Annotated[str, Field(max_length=MAX_TEXT)]
 
 
 def _q(dimension: u.Dimension) -> object:
-    return u.QuantityField(dimension)
+    return qt.QuantityField(dimension)
 
 
 Voltage = Annotated[pint.Quantity, _q(u.VOLTAGE)]
@@ -115,7 +116,7 @@ class _CodeField:
                     "string_too_long", f"String should have at most {self.max_length} characters"
                 )
             try:
-                return self.parse(value)
+                return self.parse(qt.screened(value))  # NFKC, ASCII digits, no control chars
             except ValueError as exc:
                 raise PydanticCustomError(self.kind, str(exc)) from None
 

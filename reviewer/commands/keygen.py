@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import argparse
+import os
+import stat
 
 from reviewer.commands import EXIT_GO
 
@@ -18,8 +20,9 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.signing_keys import generate_key_pair
 
     private, public = f"{args.prefix}.key", f"{args.prefix}.pub"
-    fingerprint = generate_key_pair(private, public)
-    print(f"private key: {private} (keep it to yourself; mode 600)")
+    fingerprint = generate_key_pair(private, public)  # new files only (reviewer.output)
+    mode = stat.S_IMODE(os.stat(private).st_mode)
+    print(f"private key: {private} (keep it to yourself; mode {mode:o})")
     print(f"public key:  {public} (give it to whoever verifies your signatures)")
     print(f"fingerprint: {fingerprint}")
     return EXIT_GO

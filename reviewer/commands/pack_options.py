@@ -40,10 +40,12 @@ def add_pack_arguments(parser: argparse.ArgumentParser) -> None:
 def packs_from(args: argparse.Namespace) -> PackManager:
     """Load the packs the options name; every problem is reported on stderr, one line each."""
     from reviewer.plugins import load_packs
+    from reviewer.watchdog import stdout_to_stderr
 
-    manager = load_packs(args.rule_files, args.blocked_packs, strict=args.strict_packs)
-    manager.rules()  # collect now, so rule problems are reported here too
-    manager.pack_limits()
+    with stdout_to_stderr():  # a pack that prints while loading cannot corrupt a review
+        manager = load_packs(args.rule_files, args.blocked_packs, strict=args.strict_packs)
+        manager.rules()  # collect now, so rule problems are reported here too
+        manager.pack_limits()
     report_problems(manager)
     return manager
 

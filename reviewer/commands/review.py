@@ -88,7 +88,8 @@ def run(args: argparse.Namespace) -> int:
     if args.output:
         from reviewer.output import write_whole
 
-        write_whole(Path(args.output), text)
+        read = [*args.build, args.profile, args.waivers, args.since, *args.rule_files]
+        write_whole(Path(args.output), text, inputs=[*read, *result.profile.extends])
     else:
         sys.stdout.write(text)
     print(f"firstride: verdict {result.verdict.value}", file=sys.stderr)

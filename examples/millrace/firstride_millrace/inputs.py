@@ -14,13 +14,14 @@ from typing import Annotated, Literal
 import pint
 from pydantic import BaseModel, ConfigDict, Field
 
+from reviewer import quantity_text as qt
 from reviewer import units as u
 
 PACK = "millrace"
 DECK_HEIGHT = u.Dimension("mm", "140 mm", "a deck height", 0.0, 1000.0)
 
-Voltage = Annotated[pint.Quantity, u.QuantityField(u.VOLTAGE)]
-Height = Annotated[pint.Quantity, u.QuantityField(DECK_HEIGHT)]
+Voltage = Annotated[pint.Quantity, qt.QuantityField(u.VOLTAGE)]
+Height = Annotated[pint.Quantity, qt.QuantityField(DECK_HEIGHT)]
 
 
 class MillraceInputs(BaseModel):
