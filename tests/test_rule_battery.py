@@ -244,7 +244,7 @@ def test_unknown_small_load_leaves_a_passing_pack_unassessed():
                 "battery": battery(cell_continuous_current="10 A"),
                 "motors": [{"name": "m", "type": "brushed"}],
             },
-            ("motors[0].winding_resistance", "controller.current_limit"),
+            ("motors[0].winding_resistance", "controller.battery_current_limit"),
         ),
         ({"battery": battery(cell_continuous_current="10 A")}, ("motors",)),
     ],

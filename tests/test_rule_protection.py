@@ -133,7 +133,7 @@ def test_no_rating_fits_when_the_wire_is_too_light():
     finding = by_subject(build(fuse("20 A"), gauge=14, limit="20 A"))["fuse 'main' rating"]
     assert finding.severity is Severity.FIX
     assert finding.remedy.startswith("no fuse rating fits")
-    assert "set the current limit at or below 15 A" in finding.remedy
+    assert "set controller.battery_current_limit at or below 15 A" in finding.remedy
 
 
 def test_motor_wires_count_only_without_a_current_limit():
@@ -161,7 +161,7 @@ def test_design_current_unknown_is_unassessed():
     del data["motors"][0]["rated_current"]
     finding = by_subject(data)["fuse 'main' rating"]
     assert finding.severity is Severity.UNASSESSED
-    assert finding.missing == ("motors[0].rated_current", "controller.current_limit")
+    assert finding.missing == ("motors[0].rated_current", "controller.battery_current_limit")
 
 
 def test_wire_rating_unknown_is_unassessed():
@@ -194,7 +194,7 @@ def test_a_30_amp_fuse_on_22_awg_is_judged_not_unassessed():
     assert "thinner 22 AWG wire" in finding.rationale
     # Ib 12 A (the current limit) over 7 A: no rating fits; a 7 A limit does
     assert finding.remedy.startswith("no fuse rating fits")
-    assert "set the current limit at or below 7 A" in finding.remedy
+    assert "set controller.battery_current_limit at or below 7 A" in finding.remedy
     assert finding.missing == ()
 
 

@@ -108,10 +108,14 @@ class Build(_Model):
         for wire in self.wires:
             if wire.motor is not None and wire.motor not in names:
                 raise ValueError(f"wire {wire.name!r} names motor {wire.motor!r}, not in motors")
-            if wire.circuit is Circuit.MOTOR and wire.motor is None and len(names) > 1:
+            if (
+                wire.circuit in (Circuit.MOTOR, Circuit.PHASE)
+                and wire.motor is None
+                and len(names) > 1
+            ):
                 raise ValueError(
-                    f"wire {wire.name!r} is on the motor circuit of a build with several motors: "
-                    "name its motor"
+                    f"wire {wire.name!r} is on the {wire.circuit.value} circuit of a build with "
+                    "several motors: name its motor"
                 )
         for fuse in self.fuses:
             for name in fuse.protects:

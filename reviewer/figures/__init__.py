@@ -33,7 +33,9 @@ from reviewer.figures.stall import (
     stall_point,
 )
 from reviewer.figures.wires import (
+    PHASES_IN_SERIES,
     branch_wires,
+    loop_wires,
     motor_of,
     shared_wires,
     wire_ampacity,
@@ -44,6 +46,7 @@ from reviewer.figures.wires import (
 )
 
 __all__ = [
+    "PHASES_IN_SERIES",
     "AuxiliaryLoad",
     "DesignCurrent",
     "DriveDefaults",
@@ -63,6 +66,7 @@ __all__ = [
     "drive_model",
     "drive_model_missing",
     "limit_response",
+    "loop_wires",
     "motor_kv",
     "motor_limit",
     "motor_of",

@@ -8,7 +8,7 @@ from reviewer.build import Build
 from reviewer.engineering.brushless import DriveCurrents, limited_currents
 from reviewer.figures.currents import battery_limit, motor_limit
 from reviewer.figures.pack import pack_resistance, pack_voltages
-from reviewer.figures.wires import branch_wires, shared_wires, wire_resistance
+from reviewer.figures.wires import loop_wires, shared_wires, wire_resistance
 from reviewer.units import in_unit
 
 
@@ -58,10 +58,11 @@ def _solve_stall_loop(build: Build, temperature_c: float) -> StallLoop | None:
     branches: dict[str, float] = {}
     for motor in build.motors:
         assert motor.winding_resistance is not None
+        path = loop_wires(build, motor, temperature_c)
         branches[motor.name] = (
             in_unit(motor.winding_resistance, "ohm")
             + switch
-            + sum(wire_resistance(w, temperature_c) for w in branch_wires(build, motor))
+            + sum(wire_resistance(w, temperature_c) for w in path)
         )
     conductance = sum(1 / r for r in branches.values())
     total = voltage * conductance / (1 + shared * conductance)

@@ -25,9 +25,13 @@ def wire_area_mm2(wire: Wire) -> float:
     return wire.gauge.area_mm2
 
 
+#: A locked three-phase motor carries its current line to line: through two of its phase leads.
+PHASES_IN_SERIES = 2
+
+
 def motor_of(build: Build, wire: Wire) -> Motor | None:
-    """The motor a motor-circuit wire feeds (the only motor, when there is one)."""
-    if wire.circuit is not Circuit.MOTOR:
+    """The motor a motor-circuit or phase wire feeds (the only motor, when there is one)."""
+    if wire.circuit not in (Circuit.MOTOR, Circuit.PHASE):
         return None
     if wire.motor is not None:
         return next(m for m in build.motors if m.name == wire.motor)
@@ -40,7 +44,21 @@ def shared_wires(build: Build) -> list[Wire]:
 
 
 def branch_wires(build: Build, motor: Motor) -> list[Wire]:
+    """Every wire between the controller and ``motor``: motor-circuit and phase leads."""
     return [w for w in build.wires if motor_of(build, w) is motor]
+
+
+def loop_wires(build: Build, motor: Motor, temperature_c: float = 20.0) -> list[Wire]:
+    """The wires a locked ``motor``'s current flows through after the controller: every
+    motor-circuit wire (feed and return are listed), and of its phase leads the two of least
+    resistance, since the current flows line to line through two of them and the lower pair
+    gives the higher stall current (the conservative choice for wires and fuses)."""
+    own = branch_wires(build, motor)
+    phases = sorted(
+        (w for w in own if w.circuit is Circuit.PHASE),
+        key=lambda w: wire_resistance(w, temperature_c),
+    )
+    return [w for w in own if w.circuit is Circuit.MOTOR] + phases[:PHASES_IN_SERIES]
 
 
 def wire_awg(wire: Wire) -> int:

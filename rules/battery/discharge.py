@@ -54,30 +54,36 @@ class _Demand:
 
 
 def _motor_demand(build: Build) -> _Demand:
+    """Per motor what the controller draws from the pack while its limits hold (the battery
+    limit, or the motor limit where it is lower or alone), capped by the motor's stall current;
+    with no limit at all, the stall current of every motor at once."""
     if not build.motors:
         return _Demand(None, "", False, ("motors",))
-    limit = figures.current_limit(build)
     loop = figures.stall_loop(build)
     count = len(build.motors)
     motors = f"{count} motors" if count > 1 else "the motor"
-    if limit is None:
+    if not figures.any_limit(build):
         if loop is None:
             missing = tuple(
                 f"motors[{i}].winding_resistance"
                 for i, motor in enumerate(build.motors)
                 if motor.winding_resistance is None
             )
-            return _Demand(None, "", True, (*missing, "controller.current_limit"))
+            return _Demand(None, "", True, (*missing, "controller.battery_current_limit"))
         how = f"the stall current of {motors} on the full pack, as the controller sets no limit"
         return _Demand(loop.total_current, how, True)
+    designs = [figures.battery_design_current(build, motor) for motor in build.motors]
+    amps = [d.amps for d in designs if d is not None]
+    assert len(amps) == count  # any_limit: every motor has a battery or a motor limit
     each = " per motor" if count > 1 else ""
-    how = f"the controller current limit of {_n(limit)} A{each}"
+    basis = designs[0].basis if designs[0] is not None else "limit"
+    how = f"the controller's {basis} of {_n(max(amps))} A{each}"
     if loop is None:
-        return _Demand(limit * count, how, False)
-    currents = [min(limit, stall) for stall in loop.branch_current.values()]
-    if any(stall < limit for stall in loop.branch_current.values()):
+        return _Demand(sum(amps), how, False)
+    stalls = [loop.branch_current[motor.name] for motor in build.motors]
+    if any(stall < limit for stall, limit in zip(stalls, amps, strict=True)):
         how += ", or the stall current where it is lower"
-    return _Demand(sum(currents), how, False)
+    return _Demand(sum(min(a, st) for a, st in zip(amps, stalls, strict=True)), how, False)
 
 
 def _string_capability(battery: Battery) -> tuple[float | None, str]:
@@ -147,12 +153,15 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     """The most current the drive can draw, against what the pack delivers continuously.
 
     What it checks
-      Demand: with no ``controller.current_limit``, the stall current of every motor at once
-      (full pack voltage over the cold loop: pack, wires, switch and windings; see
-      wiring.stall-current); with a limit, the limit for each motor (a motor's stall current
-      where lower). Plus ``logic.board_current`` (when its regulator is fed from the pack;
-      counted at the pack as drawn, which errs high for a switching regulator) and the brake
-      relay's ``brake.coil_current``.
+      Demand: with neither ``controller.battery_current_limit`` nor
+      ``controller.motor_current_limit``, the stall current of every motor at once (full pack
+      voltage over the cold loop: pack, wires, switch and windings; see wiring.stall-current);
+      otherwise, per motor, what the controller draws from the pack while its limits hold: the
+      battery limit, or the motor limit (DC-equivalent, highest reading) where it is lower or
+      alone, since near full duty the pack carries the motor current (energy balance, brief
+      11); a motor's stall current where lower. Plus ``logic.board_current`` (when its
+      regulator is fed from the pack; counted at the pack as drawn, which errs high for a
+      switching regulator) and the brake relay's ``brake.coil_current``.
       Capability: ``battery.cell_continuous_current``, or ``battery.cell_c_rate`` x
       ``battery.cell_capacity`` (the lower if both are given), times ``battery.cells_parallel``.
 
@@ -168,12 +177,12 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         battery positive rated at or below the capability to end a sustained stall.
       - fix: the demand exceeds the capability otherwise.
       - pass: the demand is within the capability.
-      - unassessed: no ``battery``; no ``motors``; neither ``controller.current_limit`` nor
+      - unassessed: no ``battery``; no ``motors``; no controller current limit nor
         every ``motors[i].winding_resistance``; no cell rating (``cell_continuous_current``, or
         ``cell_c_rate`` with ``cell_capacity``); or a logic board or brake relay present
         without its current while the motors alone are within the capability.
 
-    The remedy names a current limit at or below the capability less the small loads, shared
+    The remedy names a battery current limit at or below the capability less the small loads, shared
     among the motors, the number of cells in parallel that carries the demand, and the cell
     rating that would.
     """
@@ -261,7 +270,7 @@ def _discharge_remedy(
     per_motor = math.floor((capability - aux) / count + _EPSILON)
     if per_motor >= 1:
         each = " per motor" if count > 1 else ""
-        parts.append(f"set the controller current limit at or below {per_motor} A{each}")
+        parts.append(f"set controller.battery_current_limit at or below {per_motor} A{each}")
     needed = strings_needed(total, string_a)
     parts.append(f"use {needed} cells in parallel instead of {parallel}")
     parts.append(f"use cells rated at least {math.ceil(total / parallel - _EPSILON)} A continuous")
@@ -282,7 +291,10 @@ RULE = Rule(
         "battery.cell_c_rate",
         "battery.cell_internal_resistance",
         "motors[].winding_resistance",
-        "controller.current_limit",
+        "controller.battery_current_limit",
+        "controller.motor_current_limit",
+        "controller.motor_current_basis",
+        "controller.drive",
         "controller.switch_on_resistance",
         "logic.board_current",
         "logic.regulator.fed_from_pack",

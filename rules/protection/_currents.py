@@ -46,25 +46,33 @@ class Design:
 
 
 def design_current(build: Build) -> Design:
-    """Per motor the controller's current limit, else its rated continuous current (a stall is
-    a fault, not service), plus the logic board and brake relay coil."""
-    limit = figures.current_limit(build)
+    """Per motor what the controller draws from the pack while its limits hold (the battery
+    limit, or the motor limit where it is lower or alone: near full duty the pack carries the
+    motor current), else the motor's rated continuous current (a stall is a fault, not
+    service), plus the logic board and brake relay coil."""
     aux = figures.auxiliary_current(build)
     amps, missing = aux.current, list(aux.missing)
+    bases: list[str] = []
     for index, motor in enumerate(build.motors):
-        if limit is not None:
-            amps += limit
+        design = figures.battery_design_current(build, motor)
+        if design is not None:
+            amps += design.amps
+            bases.append(f"the {_n(design.amps)} A {design.basis}")
         elif motor.rated_current is not None:
             amps += in_unit(motor.rated_current, "A")
+            bases.append("the motor's rated continuous current, as the controller sets no limit")
         else:
             missing.append(f"motors[{index}].rated_current")
-    if limit is None and len(missing) > len(aux.missing):
-        missing.append("controller.current_limit")
+    unlimited = not figures.any_limit(build)
+    if unlimited and len(missing) > len(aux.missing):
+        missing.append("controller.battery_current_limit")
     if not build.motors:
         missing.append("motors")
     count = len(build.motors)
-    if limit is not None:
-        how = f"the {_n(limit)} A current limit" + (f" x {count} motors" if count > 1 else "")
+    if bases and all(basis == bases[0] for basis in bases):
+        how = bases[0] + (f" x {count} motors" if count > 1 else "")
+    elif bases:
+        how = " + ".join(bases)
     else:
         how = "the motors' rated continuous current, as the controller sets no limit"
     if aux.parts:
@@ -80,8 +88,8 @@ def protected_wires(build: Build, fuse: Fuse | None) -> list[tuple[int, Wire]]:
     if fuse is not None and fuse.protects:
         return [(i, w) for i, w in enumerate(build.wires) if w.name in fuse.protects]
     circuits = {Circuit.BATTERY}
-    if figures.current_limit(build) is None:
-        circuits.add(Circuit.MOTOR)
+    if not figures.any_limit(build):
+        circuits |= {Circuit.MOTOR, Circuit.PHASE}
     return [(i, w) for i, w in enumerate(build.wires) if w.circuit in circuits]
 
 

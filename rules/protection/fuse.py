@@ -113,20 +113,19 @@ def _window(build: Build, design: Design, capacity: Capacity) -> str:
         f"{_n(capacity.current)} A wire '{capacity.wire}' may be protected at: use wire there "
         f"that may be protected at {low} A or more"
     )
-    limit = figures.current_limit(build)
     aux = figures.auxiliary_current(build).current
-    if limit is not None and build.motors:
+    if figures.any_limit(build) and build.motors:
         per_motor = math.floor((capacity.current - aux) / len(build.motors) + _EPSILON)
         if per_motor >= 1:
             each = " per motor" if len(build.motors) > 1 else ""
-            remedy += f", or set the current limit at or below {per_motor} A{each}"
+            remedy += f", or set controller.battery_current_limit at or below {per_motor} A{each}"
     return remedy
 
 
 def _missing_fuse(
     build: Build, full: float, design: Design, capacity: Capacity, fault: _Fault
 ) -> Finding:
-    unlimited = figures.current_limit(build) is None
+    unlimited = not figures.any_limit(build)
     text = (
         "No fuse or breaker is on the pack's positive lead: a short anywhere after it draws "
         "the pack's fault current with nothing to break it"
@@ -270,8 +269,12 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       1. Presence: a fuse (or breaker) with ``location = "battery-positive"``. A fuse on the
          negative lead does not break a short from the positive side to the frame.
       2. Coordination of each such fuse (IEC 60364-4-43 433.1, Ib <= In <= Iz):
-         Ib, the design current, is per motor the ``controller.current_limit``, else its
-         ``motors[i].rated_current`` (a stall is a fault, not service), plus
+         Ib, the design current, is per motor what the controller draws from the pack while
+         its limits hold: ``controller.battery_current_limit``, or the motor limit
+         (``controller.motor_current_limit`` as a DC-equivalent current, highest reading)
+         where it is lower or alone, as the pack carries the motor current near full duty
+         (energy balance, brief 11); else the ``motors[i].rated_current`` (a stall is a
+         fault, not service), plus
          ``logic.board_current`` (pack-fed) and ``brake.coil_current``. Iz is the least, over
          the wires the fuse protects, of the wire's ampacity (as wiring.stall-current rates it:
          datasheet ``rated_ampacity`` or NEC Table 310.16 / FAA AC 43.13-1B Table 11-9, with
@@ -369,7 +372,10 @@ RULE = Rule(
         "battery.cells_parallel",
         "battery.cell_internal_resistance",
         "motors[].rated_current",
-        "controller.current_limit",
+        "controller.battery_current_limit",
+        "controller.motor_current_limit",
+        "controller.motor_current_basis",
+        "controller.drive",
         "logic.board_current",
         "brake.coil_current",
         "wires[].circuit",

@@ -11,6 +11,7 @@ from dataclasses import dataclass
 
 from firstride_rules.wiring._model import Conductor, StallContext
 
+from reviewer import figures
 from reviewer.engineering.conductors import (
     ADIABATIC_LIMIT_S,
     Ampacity,
@@ -93,17 +94,8 @@ def protection(
                 )
                 ctx.note(text, source)
             options.append(Acting(seconds, f"fuse '{fuse.name}'", True))
-    if limited and ctx.limit_response is not None:
-        options.append(Acting(ctx.limit_response, "the current limit", False))
-    elif limited:
-        seconds, source = ctx.assumed_clearing
-        if record:
-            text = (
-                "controller.current_limit_response not given: the current limit is taken to "
-                f"act within the profile's assumed clearing time, {format_number(seconds)} s."
-            )
-            ctx.note(text, source)
-        options.append(Acting(seconds, "the current limit", True))
+    if limited:
+        options.append(_limit_acting(ctx, record))
     if options:
         return min(options, key=lambda a: a.seconds), ""
     if slow:
@@ -114,6 +106,51 @@ def protection(
     if fuses:
         return None, "its fuse is rated at or above the stall current, and no current limit acts"
     return None, "no fuse protects it and no controller current limit sits below it"
+
+
+def _limit_acting(ctx: StallContext, record: bool) -> Acting:
+    """When the controller's limit acts, from the one response every rule uses
+    (``figures.limit_response``): stated for a hardware limit, its averaging window for a
+    software one; where neither is known, the profile's assumed clearing time, stated."""
+    response = ctx.response
+    who = f"the {response.kind} current limit"
+    if response.seconds is not None:
+        if response.basis == "averaging window":
+            who += " (after its averaging window)"
+        return Acting(response.seconds, who, False)
+    seconds, source = ctx.assumed_clearing
+    if record:
+        inputs = "controller.current_limit_response"
+        if response.kind != "hardware":
+            inputs += " (or controller.current_samples_averaged and current_sample_rate)"
+        text = (
+            f"How soon {who} acts is not known ({inputs} not given): taken to act within "
+            f"the profile's assumed clearing time, {format_number(seconds)} s."
+        )
+        ctx.note(text, source)
+    return Acting(seconds, who, True)
+
+
+def _design_reason(ctx: StallContext, wire: Conductor, limited: bool, motors: int) -> str:
+    """In words, what the design current of this wire rests on."""
+    if limited and wire.motor is None:
+        each = f" for each of {motors} motors" if motors > 1 else ""
+        return f"what the controller draws from the pack while its limits hold{each}"
+    if limited:
+        motor = wire.motor or ""
+        held = (
+            "the motor current whose draw from the pack at a stall is the battery limit "
+            "(I_b V = I_m² R)"
+            if ctx.held_by.get(motor) == "battery current limit"
+            else "the controller's motor current limit"
+        )
+        factor = ctx.phase_factor[motor] if wire.phase else 1.0
+        if factor != 1:
+            held = f"the peak phase current, {format_number(factor)} x {held}"
+        return held
+    if not ctx.limited:
+        return "the stall current, as the controller sets no current limit"
+    return "the stall current, as the current limit sits above it"
 
 
 def judge(
@@ -129,26 +166,22 @@ def judge(
     own = area == wire.area
     changed = {} if own else {wire.index: conductor_resistance(area, wire.length)}
     total, per_motor = ctx.currents(changed, wires)
-    design_each = ctx.design(per_motor)
+    design_each = ctx.design(per_motor, wire)
     if wire.motor is None:
         stall, design = total, sum(design_each.values())
     else:
         stall, design = per_motor[wire.motor], design_each[wire.motor]
-    fed = per_motor.values() if wire.motor is None else (per_motor[wire.motor],)
-    limited = ctx.limit is not None and any(ctx.limit < current for current in fed)
+    fed = list(per_motor) if wire.motor is None else [wire.motor]
+    limited = any(
+        (limit := ctx.limit_for(wire, name)) is not None and limit < per_motor[name] for name in fed
+    )
     design = design if limited else stall
-    motors = len(per_motor)
-    if limited:
-        why = "the controller current limit"
-        why += f" for each of {motors} motors" if wire.motor is None and motors > 1 else ""
-    elif ctx.limit is None:
-        why = "the stall current, as the controller sets no current limit"
-    else:
-        why = "the stall current, as the current limit sits above it"
-    for fuse in ctx.fuses_on(wire):  # a fuse passes no more than its rating for long
-        if fuse.rating < design:
-            design = fuse.rating
-            why = f"the rating of fuse '{fuse.name}', the most it lets through for long"
+    if limited and wire.phase and wire.motor is not None:
+        design *= ctx.phase_factor[wire.motor]  # a locked rotor holds the peak in one phase
+    why = _design_reason(ctx, wire, limited, len(per_motor))
+    for cap, because in ctx.fuse_caps(wire):
+        if cap < design:
+            design, why = cap, because
     assert wire.insulation is not None and wire.rating is not None
     ampacity: Ampacity | None
     bound = None
@@ -263,6 +296,15 @@ def running_temperature(
     return min(max(estimate, ctx.ambient), wire.rating)
 
 
+def drop_path(wires: list[Conductor], motor: str) -> list[Conductor]:
+    """The conductors a motor's current runs through, for its voltage drop: the battery wires,
+    its motor wires, and of its phase leads the two of most resistance (line to line, two
+    carry the current; the higher pair is the conservative choice for a drop)."""
+    own = [w for w in wires if w.motor in (None, motor) and not w.phase]
+    phases = sorted((w for w in wires if w.motor == motor and w.phase), key=lambda w: -w.r20)
+    return own + phases[: figures.PHASES_IN_SERIES]
+
+
 def path_drop(
     ctx: StallContext,
     motor: str,
@@ -275,11 +317,11 @@ def path_drop(
     areas = {w.index: awg_area(sizes[w.index]) if w.index in sizes else w.area for w in path}
     changed = {i: conductor_resistance(areas[i], w.length) for w in path if (i := w.index) in sizes}
     _, per_motor = ctx.currents(changed, wires)
-    design = ctx.design(per_motor)
     volts, carried = 0.0, {}
     for wire in path:
+        design = ctx.design(per_motor, wire)
         current = sum(design.values()) if wire.motor is None else design[motor]
-        current = min([current, *(f.rating for f in ctx.fuses_on(wire))])
+        current = min([current, *(cap for cap, _ in ctx.fuse_caps(wire))])
         hot = running_temperature(ctx, wire, current, sizes.get(wire.index))
         volts += current * conductor_resistance(areas[wire.index], wire.length, hot)
         carried[wire.motor is None] = max(current, carried.get(wire.motor is None, 0.0))

@@ -11,6 +11,7 @@ from collections.abc import Callable, Iterator
 from firstride_rules._shared.wording import STALL_SOURCE
 from firstride_rules.wiring._calc import (
     WireVerdict,
+    drop_path,
     judge,
     lightest_drop_gauge,
     path_drop,
@@ -215,7 +216,7 @@ def _beyond_the_tables(
 
 def path_finding(ctx: StallContext, motor: str, wires: list[Conductor]) -> Finding:
     subject = f"motor path '{motor}'"
-    path = [w for w in wires if w.motor in (None, motor)]
+    path = drop_path(wires, motor)
     if not path:
         return Finding(
             Severity.UNASSESSED,

@@ -12,6 +12,7 @@ from functools import cached_property
 
 from reviewer import figures
 from reviewer.build import Build, Circuit, Fuse, Wire
+from reviewer.engineering.brushless import current_for_battery_limit
 from reviewer.engineering.conductors import (
     awg_for_area,
     conductor_resistance,
@@ -38,6 +39,7 @@ class Conductor:
     rating: float | None  # degC
     loaded: int  # loaded conductors in its bundle, itself included
     datasheet: float | None  # A
+    phase: bool = False  # a phase lead of a brushless motor (two of them carry a stall)
 
 
 @dataclass(frozen=True)
@@ -70,8 +72,11 @@ class StallContext:
     loop: figures.StallLoop
     nominal: float
     ambient: float
-    limit: float | None
-    limit_response: float | None
+    motor_limits: dict[str, float]  # per motor: the motor limit, DC-equivalent A (high)
+    battery_limits: dict[str, float]  # per motor: what it draws from the pack at most, A
+    phase_factor: dict[str, float]  # per motor: peak phase current over DC-equivalent current
+    response: figures.LimitResponse
+    held_by: dict[str, str] = field(default_factory=dict)  # which limit holds a locked motor
     fuses: list[WireFuse] = field(default_factory=list)
     assumptions: dict[str, Assumption] = field(default_factory=dict)
 
@@ -87,25 +92,74 @@ class StallContext:
     def fuses_on(self, wire: Conductor) -> list[WireFuse]:
         return [fuse for fuse in self.fuses if fuse.covers(wire)]
 
+    def fuse_caps(self, wire: Conductor) -> list[tuple[float, str]]:
+        """What each fuse on this wire lets it carry for long, and why. A fuse passes its
+        rating indefinitely (IEC 60364-4-43 433.1): that caps a battery wire, or a motor or
+        phase lead the fuse is itself on. A fuse on the pack side of a PWM drive caps only
+        the pack's current: below full duty the motor carries more than the pack supplies,
+        and at a stall I_b V = I_m^2 R (brief 11, energy balance), so the lead's cap is the
+        motor current whose draw is the fuse's rating (x the peak phase factor for a phase
+        lead)."""
+        caps = []
+        for fuse in self.fuses_on(wire):
+            if wire.motor is None or not fuse.whole_pack:
+                why = f"the rating of fuse '{fuse.name}', the most it lets through for long"
+                caps.append((fuse.rating, why))
+                continue
+            resistance = self.loop.branch_resistance[wire.motor] + self.loop.shared_resistance
+            drawn = current_for_battery_limit(0.0, resistance, self.loop.voltage, fuse.rating)
+            factor = self.phase_factor[wire.motor] if wire.phase else 1.0
+            why = (
+                f"the motor current whose draw from the pack at a stall is the {fuse.rating:g} A "
+                f"rating of fuse '{fuse.name}' (I_b V = I_m² R: a PWM drive below full duty "
+                "carries more in the motor than it draws)"
+            )
+            caps.append((drawn * factor, why))
+        return caps
+
+    @property
+    def limited(self) -> bool:
+        return bool(self.motor_limits or self.battery_limits)
+
     def currents(
         self, changed: dict[int, float], wires: list[Conductor]
     ) -> tuple[float, dict[str, float]]:
-        """Stall currents (total, per motor) with some wires at new 20 degC resistances."""
+        """Stall currents (total, per motor) with some wires at new 20 degC resistances. Of a
+        motor's phase leads the two of least resistance carry the stall, chosen again after
+        the change (``figures.loop_wires``)."""
         shared = self.loop.shared_resistance
         branches = dict(self.loop.branch_resistance)
+        phases: dict[str, tuple[list[float], list[float]]] = {}
         for wire in wires:
-            if wire.index in changed:
-                delta = changed[wire.index] - wire.r20
+            now = changed.get(wire.index, wire.r20)
+            if wire.phase and wire.motor is not None:
+                before, after = phases.setdefault(wire.motor, ([], []))
+                before.append(wire.r20)
+                after.append(now)
+            elif wire.index in changed:
                 if wire.motor is None:
-                    shared += delta
+                    shared += now - wire.r20
                 else:
-                    branches[wire.motor] += delta
+                    branches[wire.motor] += now - wire.r20
+        for motor, (before, after) in phases.items():
+            pair = figures.PHASES_IN_SERIES
+            branches[motor] += sum(sorted(after)[:pair]) - sum(sorted(before)[:pair])
         return figures.stall_currents(self.loop.voltage, shared, branches)
 
-    def design(self, per_motor: dict[str, float]) -> dict[str, float]:
-        if self.limit is None:
-            return per_motor
-        return {name: min(self.limit, current) for name, current in per_motor.items()}
+    def limit_for(self, wire: Conductor, motor: str) -> float | None:
+        """The limit that holds ``motor``'s share of this wire's current: the battery-side
+        figure for a battery wire, the motor limit for a motor or phase lead."""
+        limits = self.battery_limits if wire.motor is None else self.motor_limits
+        return limits.get(motor)
+
+    def design(self, per_motor: dict[str, float], wire: Conductor) -> dict[str, float]:
+        """Per motor the current this wire carries for long while the limits hold: the limit
+        where it sits below the stall current, else the stall current."""
+        design = {}
+        for name, current in per_motor.items():
+            limit = self.limit_for(wire, name)
+            design[name] = current if limit is None else min(limit, current)
+        return design
 
     def note(self, text: str, source: Source | None) -> None:
         self.assumptions.setdefault(text, Assumption(text, source))
@@ -120,7 +174,7 @@ def conductor_from(build: Build, index: int, wire: Wire) -> Conductor:
         assert wire.gauge is not None  # the build model requires one of the two
         awg, area = wire.gauge.awg, wire.gauge.area_mm2
     motor = None
-    if wire.circuit is Circuit.MOTOR:
+    if wire.circuit in (Circuit.MOTOR, Circuit.PHASE):
         fed = figures.motor_of(build, wire)
         assert fed is not None  # the build model requires a motor name when there are several
         motor = fed.name
@@ -139,6 +193,7 @@ def conductor_from(build: Build, index: int, wire: Wire) -> Conductor:
         in_unit(rating, "degC") if rating is not None else None,
         wire.bundled_with + 1,
         in_unit(rated, "A") if rated is not None else None,
+        wire.circuit is Circuit.PHASE,
     )
 
 
@@ -156,9 +211,34 @@ def fuse_from(fuse: Fuse, wires: list[Conductor]) -> WireFuse:
 
 
 def power_wires(build: Build) -> list[Conductor]:
-    """Every battery and motor wire, indexed by its place in ``build.wires``."""
+    """Every battery, motor and phase wire, indexed by its place in ``build.wires``."""
     return [
         conductor_from(build, i, w)
         for i, w in enumerate(build.wires)
-        if w.circuit in (Circuit.BATTERY, Circuit.MOTOR)
+        if w.circuit in POWER_CIRCUITS
     ]
+
+
+POWER_CIRCUITS = (Circuit.BATTERY, Circuit.MOTOR, Circuit.PHASE)
+
+
+def limits_of(
+    build: Build,
+) -> tuple[dict[str, float], dict[str, float], dict[str, float], dict[str, str]]:
+    """Per motor: the motor current the limits hold a locked rotor at (DC-equivalent; both
+    limits together, ``figures.stall_point``: the motor limit at its highest reading, or the
+    current whose draw from the pack is the battery limit, I_b V = I_m^2 R, where lower; absent
+    where neither holds it below the stall current), what it draws from the pack at most while
+    the limits hold, and its peak phase current per amp of DC-equivalent current (1 for
+    brushed and six-step drive), and which limit holds each locked motor."""
+    motor_limits, battery_limits, factors, held_by = {}, {}, {}, {}
+    for motor in build.motors:
+        point = figures.stall_point(build, motor.name)
+        if point is not None and point.limited_by != "pack voltage":
+            motor_limits[motor.name] = point.motor_current
+            held_by[motor.name] = point.limited_by
+        design = figures.battery_design_current(build, motor)
+        if design is not None:
+            battery_limits[motor.name] = design.amps
+        factors[motor.name] = figures.phase_conductor_current(build, motor, 1.0)
+    return motor_limits, battery_limits, factors, held_by

@@ -25,11 +25,17 @@ from firstride_rules.wiring._findings import (
     stall_figures,
     wire_finding,
 )
-from firstride_rules.wiring._model import StallContext, fuse_from, power_wires
+from firstride_rules.wiring._model import (
+    POWER_CIRCUITS,
+    StallContext,
+    fuse_from,
+    limits_of,
+    power_wires,
+)
 
 from reviewer import figures
-from reviewer.build import Build, Circuit
-from reviewer.findings import Finding, Severity
+from reviewer.build import Build
+from reviewer.findings import Finding, Severity, Source, SourceStatus
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
 from reviewer.units import format_number, in_unit
@@ -46,7 +52,7 @@ def _missing(build: Build) -> tuple[str, ...]:
         for i, motor in enumerate(build.motors)
         if motor.winding_resistance is None
     ]
-    if not any(w.circuit in (Circuit.BATTERY, Circuit.MOTOR) for w in build.wires):
+    if not any(w.circuit in POWER_CIRCUITS for w in build.wires):
         missing.append("wires")
     return tuple(missing)
 
@@ -59,29 +65,44 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       the pack's full voltage over the cold (20 °C) loop resistance: pack internal resistance
       (``battery.cell_internal_resistance``, if given), battery-circuit wires, controller switch
       (``controller.switch_on_resistance``), the motor's own wires and its winding
-      (``motors[].winding_resistance``). Several motors share the battery wires:
-      I_total = V G / (1 + R_shared G) with G the sum of the branch conductances, so a battery
-      wire carries the total and a motor wire its motor's share.
+      (``motors[].winding_resistance``, line to line for a brushless motor). A locked
+      three-phase motor carries its current line to line through two of its ``phase`` leads:
+      the two of least resistance are counted (the higher stall current). Several motors share
+      the battery wires: I_total = V G / (1 + R_shared G) with G the sum of the branch
+      conductances, so a battery wire carries the total and a motor wire its motor's share.
 
-      For every wire on the ``battery`` or ``motor`` circuit:
+      Which limit holds which wire (brief 11): a battery wire is held by what the controller
+      draws from the pack while its limits hold (``controller.battery_current_limit``, or the
+      motor limit where it is lower or alone); a motor or phase lead only by the motor limit
+      (``controller.motor_current_limit``, as a DC-equivalent current, the largest reading
+      where ``controller.motor_current_basis`` or ``drive`` is not given): a battery limit does
+      not hold a stalled motor's current, since at a stall the pack supplies little power. A
+      phase lead under field-oriented drive carries the peak phase current, DC-equivalent
+      / (sqrt 3 / 2), which a locked rotor holds in one phase.
+
+      For every wire on the ``battery``, ``motor`` or ``phase`` circuit:
       1. Stall survival. Protection acts if a fuse protects the wire (``fuses[].protects``
          names it, or the fuse's location is battery-positive) and is rated below the stall
          current through the fuse (every motor's for a fuse at the battery positive or on a
-         battery wire, else that of the motors whose wires it names), or if the controller's
-         per-motor ``current_limit`` sits below the wire's stall current. The earliest acts: a
+         battery wire, else that of the motors whose wires it names), or if the limit that
+         holds the wire sits below its stall current. The earliest acts: a
          fuse after its ``clearing_time``; a fuse without one after the profile's
          ``wiring.assumed_clearing_time``, but only if its current is at least
          ``wiring.assumed_clearing_multiple`` times its rating (nearer its rating a fuse can
-         hold for minutes); the limit after ``controller.current_limit_response`` (else the
-         assumed clearing time). The wire survives if t <= k^2 S^2 / I^2 (IEC 60364-4-43
+         hold for minutes); the limit after the one response every rule uses
+         (``figures.limit_response``): a hardware limit's ``controller.current_limit_response``;
+         a software limit (or one of unstated ``current_limit_kind``) no sooner than its
+         averaging window, ``current_samples_averaged`` / ``current_sample_rate``; else the
+         assumed clearing time, stated. The wire survives if t <= k^2 S^2 / I^2 (IEC 60364-4-43
          434.5.2, adiabatic, valid to 5 s; past 5 s a wire that carries the current
          continuously also survives). k comes from ``wires[].insulation`` (PVC 115, PVC 90 °C
          100, rubber 141, XLPE 143, silicone 132; PTFE from the general formula, 200 to 300 °C,
          from memory); a wire rated hotter than the table's starting temperature gets k from
          the general formula at its own rating. With no protection acting the stall current is
          sustained and must be within the wire's ampacity.
-      2. Continuous current. The design current is the current limit (summed over the motors
-         for a battery wire), or the stall current where no limit sits below it, and no more
+      2. Continuous current. The design current is the limit that holds the wire (summed over
+         the motors for a battery wire; the peak phase current for a phase lead), or the stall
+         current where no limit sits below it, and no more
          than the rating of a fuse on the wire (a fuse passes its rating indefinitely; IEC
          60364-4-43 433.1, Ib <= In <= Iz). It must be
          within the ampacity: the wire's ``rated_ampacity`` (datasheet, read as for 30 °C
@@ -142,10 +163,21 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         default = profile.limit("usage.default_ambient_temperature")
         ambient = in_unit(default.quantity, "degC")
     nominal = figures.pack_voltages(build.battery).nominal
-    limit = figures.current_limit(build)
-    response = build.controller.current_limit_response if build.controller else None
-    seconds = in_unit(response, "s") if response is not None else None
-    ctx = StallContext(profile, loop, nominal, ambient, limit, seconds)
+    motor_limits, battery_limits, factors, held_by = limits_of(build)
+    response = figures.limit_response(build)
+    ctx = StallContext(
+        profile, loop, nominal, ambient, motor_limits, battery_limits, factors, response, held_by
+    )
+    assumed = [
+        m.name for m in build.motors if (lim := figures.motor_limit(build, m)) and lim.basis_assumed
+    ]
+    if assumed:
+        text = (
+            "controller.motor_current_basis (or controller.drive) not given: the motor current "
+            "limit is read as the largest current it can mean (an rms figure under "
+            "field-oriented drive) for the motor and phase wires."
+        )
+        ctx.note(text, CURRENT_BASIS)
     if default is not None:
         text = f"Ambient temperature not given: {format_number(ambient)} °C taken for wires."
         ctx.note(text, default.source)
@@ -171,6 +203,13 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     yield from ctx.assumptions.values()
 
 
+CURRENT_BASIS = Source(
+    "Controllers quote the phase limit as a peak or an rms figure; rms x sqrt 2 is the peak, "
+    "and under field-oriented drive a locked rotor holds the peak in one phase",
+    SourceStatus.DERIVED,
+)
+
+
 RULE = Rule(
     id="wiring.stall-current",
     title="Battery and motor wires against the stall current",
@@ -185,6 +224,7 @@ RULE = Rule(
         AMBIENT,
         BUNDLING,
         RUNNING,
+        CURRENT_BASIS,
     ),
     inputs=(
         "battery.chemistry",
@@ -192,8 +232,14 @@ RULE = Rule(
         "battery.cells_parallel",
         "battery.cell_internal_resistance",
         "motors[].winding_resistance",
-        "controller.current_limit",
+        "controller.motor_current_limit",
+        "controller.motor_current_basis",
+        "controller.battery_current_limit",
+        "controller.drive",
+        "controller.current_limit_kind",
         "controller.current_limit_response",
+        "controller.current_samples_averaged",
+        "controller.current_sample_rate",
         "controller.switch_on_resistance",
         "wires[].circuit",
         "wires[].motor",
