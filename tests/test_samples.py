@@ -17,6 +17,8 @@ EXPECTED = {
     "quayside-commuter.toml": ("go", 0),
     "allotment-cargo-trike.toml": ("no-go", 1),
     "unfinished-yard-kart.toml": ("incomplete", 1),
+    "saltmarsh-hub-scooter.toml": ("go", 0),  # brushless hub motor, sealed controller
+    "ridgeback-belt-board.toml": ("no-go", 1),  # phase leads and cooling (issue 10)
 }
 
 
@@ -92,3 +94,27 @@ def test_sample_waivers_and_history_show_in_the_review(tmp_path: Path) -> None:
     assert "## Waivers" in text
     assert "| applied |" in text
     assert "a stop finding cannot be waived under this profile" in text
+
+
+def test_belt_board_sample_fails_on_its_phase_leads_and_its_cooling() -> None:
+    from reviewer.findings import Severity
+    from reviewer.session import review_file
+
+    result = review_file(SAMPLES / "ridgeback-belt-board.toml")
+    bad = {
+        (f.rule_id, f.subject)
+        for f in result.findings
+        if f.severity in (Severity.STOP, Severity.FIX)
+    }
+    assert any(rule == "wiring.stall-current" and "phase" in subject for rule, subject in bad)
+    assert any(rule == "motor.cooling" for rule, _ in bad)
+
+
+def test_no_brushless_sample_is_asked_for_a_freewheel_diode() -> None:
+    from reviewer.session import review_file
+
+    for name in ("saltmarsh-hub-scooter.toml", "ridgeback-belt-board.toml"):
+        result = review_file(SAMPLES / name)
+        for finding in result.findings:
+            text = f"{finding.rationale} {finding.remedy or ''}".lower()
+            assert "fit a freewheel diode" not in text and "freewheel diode across" not in text

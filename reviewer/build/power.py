@@ -70,6 +70,11 @@ class InsulationClass(enum.Enum):
 
 class Cooling(_Model):
     fan: StrictBool = Field(False, description="the motor has its own shaft fan or forced air")
+    fan_independent: StrictBool = Field(
+        False,
+        description="the fan has its own drive and turns while the motor stands still "
+        "(IC416); a shaft fan (the default) moves no air at a stall",
+    )
     inlet_blocked: StrictBool = False
     outlet_blocked: StrictBool = False
     blocked_cooling_factor: StrictFloat | None = Field(

@@ -201,3 +201,75 @@ def steady_winding_temperature_fed(
         else:
             high = middle
     return 0.5 * (low + high)
+
+
+def held_current(
+    theta: float,
+    voltage: float,
+    series_resistance: float,
+    resistance_20c: float,
+    current_limit: float | None = None,
+    power_limit: float | None = None,
+) -> tuple[float, str]:
+    """The current in A a locked rotor carries with its winding at ``theta`` degC, and what
+    sets it: the lowest of the motor current limit, what the pack voltage drives through the
+    loop, V / (R_series + R(theta)), and the current whose loop loss is the battery's power
+    limit, sqrt(P / (R_series + R(theta))) (at a stall the pack's power all turns into heat:
+    I_b V = I_m^2 R, brief 11)."""
+    loop = series_resistance + copper_resistance_at(resistance_20c, theta)
+    options = [(voltage / loop, "pack voltage")]
+    if current_limit is not None:
+        options.append((current_limit, "motor current limit"))
+    if power_limit is not None:
+        options.append((math.sqrt(max(power_limit, 0.0) / loop), "battery current limit"))
+    return min(options, key=lambda pair: pair[0])
+
+
+def steady_winding_temperature_held(
+    voltage: float,
+    series_resistance: float,
+    resistance_20c: float,
+    thermal_resistance: float,
+    ambient_c: float,
+    cooling_factor: float = 1.0,
+    current_limit: float | None = None,
+    power_limit: float | None = None,
+) -> float:
+    """Steady winding temperature in degC of a locked rotor on a pack of ``voltage`` V behind a
+    controller whose limits hold it (:func:`held_current`): the lowest temperature, heating up
+    from ambient, at which theta = theta_amb + (R_th / k) I(theta)^2 R(theta).
+
+    The pack voltage bounds the loss by V^2 / R(theta_amb), so a steady state always exists; a
+    held current above what the pack can drive through the hot winding is never credited.
+    """
+    if cooling_factor <= 0:
+        raise ValueError("cooling factor must be positive")
+    effective = thermal_resistance / cooling_factor
+
+    def surplus(theta: float) -> float:
+        current, _ = held_current(
+            theta, voltage, series_resistance, resistance_20c, current_limit, power_limit
+        )
+        return (
+            ambient_c
+            + effective * current * current * copper_resistance_at(resistance_20c, theta)
+            - theta
+        )
+
+    cold = copper_resistance_at(resistance_20c, ambient_c)
+    high = ambient_c + effective * voltage * voltage / cold + 1.0
+    low = ambient_c
+    steps = 256
+    for step in range(1, steps + 1):
+        upper = ambient_c + (high - ambient_c) * step / steps
+        if surplus(upper) <= 0:
+            high = upper
+            break
+        low = upper
+    for _ in range(100):
+        middle = 0.5 * (low + high)
+        if surplus(middle) > 0:
+            low = middle
+        else:
+            high = middle
+    return high

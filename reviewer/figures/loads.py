@@ -24,7 +24,8 @@ def auxiliary_current(build: Build) -> AuxiliaryLoad:
     current through, a switching one draws less, so this errs high) and brake relay coil."""
     current, parts, missing = 0.0, [], []
     logic = build.logic
-    if logic is not None and (logic.regulator is None or logic.regulator.fed_from_pack):
+    board = logic is not None and logic.present  # present = false: no separate logic board
+    if board and (logic.regulator is None or logic.regulator.fed_from_pack):
         if logic.board_current is None:
             missing.append("logic.board_current")
         else:

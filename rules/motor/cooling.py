@@ -8,20 +8,22 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
+from firstride_rules.motor._wording import Held
+from firstride_rules.motor._wording import rationale as motor_rationale
+from firstride_rules.motor._wording import remedy as motor_remedy
 
 from reviewer import figures
 from reviewer import units as u
 from reviewer.build import Build, Motor
-from reviewer.engineering.motor import copper_loss, input_power
+from reviewer.engineering.motor import copper_loss
 from reviewer.engineering.thermal import (
-    REFERENCE_COOLANT_C,
     ThermalClass,
     calibrated_thermal_resistance,
     copper_resistance_at,
-    insulation_life_factor,
+    held_current,
     max_continuous_current,
     steady_winding_temperature,
-    steady_winding_temperature_fed,
+    steady_winding_temperature_held,
     thermal_class,
 )
 from reviewer.findings import Assumption, DerivedFigure, Finding, Severity, Source, SourceStatus
@@ -41,9 +43,6 @@ THERMAL_MODEL = Source(
     SourceStatus.DERIVED,
 )
 _STATUS = {s.value: s for s in SourceStatus}
-# The 10 K halving rule is quoted only this far past the class temperature; beyond it the
-# figure would be meaningless precision about a winding that is burning.
-_LIFE_QUOTE_SPAN_K = 50.0
 _TOLERANCE_K = 1e-6  # rated current at 40 degC lands on the limit; rounding must not flip it
 # Units parsed once: building quantities from unit text costs far more than the physics.
 _A = u.unit("A")
@@ -54,20 +53,35 @@ _W = u.unit("W")
 
 @dataclass(frozen=True)
 class _Load:
-    """What drives a motor's winding: a held current, or the pack voltage on a locked rotor."""
+    """What holds a locked rotor's current: the motor limit, the battery limit (as the power it
+    lets the pack deliver) and the pack voltage behind the loop outside the winding."""
 
-    current: float  # the held current; for a stall, the cold stall current
-    voltage: float | None  # volts behind the current (input power), if the battery is known
-    stall_series_resistance: float | None = None  # None: current-limited; else stall feed
+    motor_limit: float | None  # DC-equivalent A
+    power_limit: float | None  # W: battery current limit x full pack voltage
+    voltage: float | None  # full pack voltage, V; None when the pack is not described
+    series: float  # ohm: the motor's own wires and switch, and the shared path once per motor
+
+    @property
+    def limited(self) -> bool:
+        return self.motor_limit is not None or self.power_limit is not None
 
 
-def _stall_load(loop: figures.StallLoop, motor: Motor) -> _Load:
-    """A locked rotor fed from the full pack: its own wires and switch in series, and the shared
-    path counted once per motor (exact when identical motors stall together)."""
+def _load(build: Build, motor: Motor, loop: figures.StallLoop | None) -> _Load:
+    """A locked rotor on the full pack: its own wires and switch in series, and the shared path
+    counted once per motor (exact when identical motors stall together)."""
+    limit = figures.motor_limit(build, motor)
+    battery = figures.battery_limit(build)
+    if loop is None:
+        return _Load(None if limit is None else limit.high, None, None, 0.0)
     assert motor.winding_resistance is not None
     own = loop.branch_resistance[motor.name] - _in(motor.winding_resistance, _OHM)
     series = own + len(loop.branch_resistance) * loop.shared_resistance
-    return _Load(loop.branch_current[motor.name], loop.voltage, series)
+    return _Load(
+        None if limit is None else limit.high,
+        None if battery is None else battery * loop.voltage,
+        loop.voltage,
+        series,
+    )
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -130,36 +144,37 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             "heating check.",
             default_ambient.source,
         )
-    limit = figures.current_limit(build)
-    loop = figures.stall_loop(build) if limit is None else None
-    pack_voltage = figures.pack_voltages(build.battery).nominal if build.battery else None
-    if limit is None:
+    loop = figures.stall_loop(build)
+    if not figures.any_limit(build):
         yield Assumption(
             "No controller current limit: each motor is checked stalled on the full pack "
             "indefinitely (a locked or overloaded wheel), its current falling as it heats.",
             THERMAL_MODEL,
         )
     for index, motor in enumerate(build.motors):
-        missing = _missing(build, index, motor, limit)
+        missing = _missing(build, index, motor, loop)
         if missing:
             yield Finding(
                 severity=Severity.UNASSESSED,
                 subject=f"motor '{motor.name}'",
                 rationale=(
                     "The winding temperature needs the winding resistance, the rated continuous "
-                    "current, the insulation class and a continuous current (the controller's "
-                    "current limit, or the stall current from the battery and motor circuit)."
+                    "current, the insulation class and what holds a locked rotor's current (the "
+                    "controller's motor current limit, or the pack and motor circuit)."
                 ),
                 missing=missing,
                 sources=(IEC_60085, IEC_60034_1),
             )
             continue
-        if limit is not None:
-            load = _Load(limit, pack_voltage)
-        else:
-            assert loop is not None
-            load = _stall_load(loop, motor)
-        yield from _check_motor(motor, load, ambient, profile)
+        load = _load(build, motor, loop)
+        if load.voltage is None:
+            yield Assumption(
+                f"Motor '{motor.name}': the pack is not described, so its motor current limit "
+                "is taken as held whatever the winding's temperature (no cap by what the pack "
+                "voltage can drive through the hot winding: the higher figure).",
+                THERMAL_MODEL,
+            )
+        yield from _check_motor(build, motor, load, ambient, profile)
 
 
 def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
@@ -167,13 +182,15 @@ def _in(quantity: pint.Quantity, unit: pint.Unit) -> float:
     return u.in_unit(quantity, unit)
 
 
-def _missing(build: Build, index: int, motor: Motor, limit: float | None) -> tuple[str, ...]:
+def _missing(
+    build: Build, index: int, motor: Motor, loop: figures.StallLoop | None
+) -> tuple[str, ...]:
     missing = [
         f"motors[{index}].{name}"
         for name in ("winding_resistance", "rated_current", "insulation_class")
         if getattr(motor, name) is None
     ]
-    if limit is None:
+    if loop is None and figures.motor_limit(build, motor) is None:
         stall_needs = ["battery"] if build.battery is None else []
         stall_needs += [
             f"motors[{j}].winding_resistance"
@@ -181,27 +198,47 @@ def _missing(build: Build, index: int, motor: Motor, limit: float | None) -> tup
             if j != index and other.winding_resistance is None
         ]
         if stall_needs:
-            missing += ["controller.current_limit", *stall_needs]
+            missing += ["controller.motor_current_limit", *stall_needs]
     return tuple(missing)
 
 
 def _cooling_factor(motor: Motor, profile: Profile) -> tuple[float, Assumption | None]:
+    """The heat-loss coefficient of a locked rotor over the one its rating assumes. A shaft fan
+    does not turn at a stall: no airflow, as if unventilated (IEC 60034-6 IC411 to IC410; brief
+    12). An independently driven fan keeps its airflow unless its inlet or outlet is blocked."""
     cooling = motor.cooling
-    if not (cooling.fan and (cooling.inlet_blocked or cooling.outlet_blocked)):
+    blocked = cooling.inlet_blocked or cooling.outlet_blocked
+    still = cooling.fan and not cooling.fan_independent
+    if not (cooling.fan and (blocked or still)):
         return 1.0, None
+    why = (
+        "its shaft fan does not turn at a stall (no cooling.fan_independent)"
+        if still
+        else "blocked fan airflow"
+    )
     if cooling.blocked_cooling_factor is not None:
-        return cooling.blocked_cooling_factor, None
+        factor = cooling.blocked_cooling_factor
+        note = None
+        if still:
+            note = Assumption(
+                f"Motor '{motor.name}': {why}: judged with its cooling.blocked_cooling_factor, "
+                f"{factor:.0%} of the open heat-loss coefficient.",
+                None,
+            )
+        return factor, note
     default = profile.limit("motor.blocked_cooling_factor")
     factor = float(default.value)  # type: ignore[arg-type]
     note = Assumption(
-        f"Motor '{motor.name}': blocked fan airflow taken to leave {factor:.0%} of the open "
-        "heat-loss coefficient (no cooling.blocked_cooling_factor given).",
+        f"Motor '{motor.name}': {why}, taken to leave {factor:.0%} of the open heat-loss "
+        "coefficient (no cooling.blocked_cooling_factor given).",
         default.source,
     )
     return factor, note
 
 
-def _check_motor(motor: Motor, load: _Load, ambient: float, profile: Profile) -> Iterator[Output]:
+def _check_motor(
+    build: Build, motor: Motor, load: _Load, ambient: float, profile: Profile
+) -> Iterator[Output]:
     assert motor.winding_resistance is not None and motor.rated_current is not None
     assert motor.insulation_class is not None
     grade = thermal_class(motor.insulation_class.value)
@@ -210,19 +247,28 @@ def _check_motor(motor: Motor, load: _Load, ambient: float, profile: Profile) ->
     if assumption is not None:
         yield assumption
     r_th = calibrated_thermal_resistance(_in(motor.rated_current, _A), r20, grade.rise_limit)
-    if load.stall_series_resistance is None:
-        current = load.current
+    if load.voltage is None:
+        assert load.motor_limit is not None  # _missing asks for the pack otherwise
+        current, held_by = load.motor_limit, "motor current limit"
         theta = steady_winding_temperature(current, r20, r_th, ambient, factor)
+        cold = current
     else:
-        assert load.voltage is not None
-        series = load.stall_series_resistance
-        theta = steady_winding_temperature_fed(load.voltage, series, r20, r_th, ambient, factor)
-        current = load.voltage / (series + copper_resistance_at(r20, theta))
+        args = (load.voltage, load.series, r20)
+        theta = steady_winding_temperature_held(
+            *args, r_th, ambient, factor, load.motor_limit, load.power_limit
+        )
+        current, held_by = held_current(theta, *args, load.motor_limit, load.power_limit)
+        cold, _ = held_current(20.0, *args, load.motor_limit, load.power_limit)
     runaway = math.isinf(theta)
     # On runaway the loss has no steady value: quote it at the class temperature, a floor.
     loss_temperature = grade.class_temperature if runaway else theta
-    loss = copper_loss(current, copper_resistance_at(r20, loss_temperature))
-    power = input_power(load.voltage, current) if load.voltage is not None else None
+    hot = copper_resistance_at(r20, loss_temperature)
+    loss = copper_loss(current, hot)
+    # A locked rotor does no work: the pack's power all turns into heat in the loop.
+    power = None if load.voltage is None else current * current * (hot + load.series)
+    if power is not None:
+        assert loss <= power * (1 + 1e-9), "copper loss above electrical input"
+        assert power <= load.voltage * current * (1 + 1e-9), "battery current above motor current"
     allowed = max_continuous_current(r20, r_th, ambient, grade.rise_limit_temperature, factor)
     allowed_open = max_continuous_current(r20, r_th, ambient, grade.rise_limit_temperature)
     name = f"motor '{motor.name}'"
@@ -235,9 +281,9 @@ def _check_motor(motor: Motor, load: _Load, ambient: float, profile: Profile) ->
     )
     if power is not None:
         yield DerivedFigure(
-            f"input power at continuous current, {name}",
+            f"input power at a locked rotor, {name}",
             u.quantity(power, _W),
-            note="V I drawn at full duty; not all of it heats the winding",
+            note="drawn from the pack; a locked rotor does no work, so all of it is heat",
             order=41,
         )
     if not runaway:
@@ -261,102 +307,21 @@ def _check_motor(motor: Motor, load: _Load, ambient: float, profile: Profile) ->
     else:
         severity = Severity.PASS
     remedy = None
+    still = motor.cooling.fan and not motor.cooling.fan_independent
+    held = Held(current, cold, held_by, loss, power, still)
     if severity is not Severity.PASS:
-        remedy = _remedy(load, current, allowed, allowed_open, factor, ambient, grade)
+        remedy = motor_remedy(
+            build, motor, load, held, (allowed, allowed_open), factor, ambient, grade
+        )
     yield Finding(
         severity=severity,
         subject=name,
-        rationale=_rationale(load, current, loss, power, theta, ambient, grade, factor),
+        rationale=motor_rationale(load, held, theta, ambient, grade, factor),
         measured=None if runaway else u.quantity(theta, _DEGC),
         limit=u.quantity(grade.rise_limit_temperature, _DEGC),
         remedy=remedy,
         sources=(IEC_60085, _rise_source(grade), COPPER_TEMPERATURE, THERMAL_MODEL),
     )
-
-
-def _rationale(
-    load: _Load,
-    current: float,
-    loss: float,
-    power: float | None,
-    theta: float,
-    ambient: float,
-    grade: ThermalClass,
-    factor: float,
-) -> str:
-    f = u.format_number
-    drawn = ""
-    if power is not None and load.voltage is not None:
-        drawn = f", of {f(power)} W drawn at {f(load.voltage)} V and full duty"
-    if load.stall_series_resistance is None:
-        first = (
-            f"Held at {f(current)} A by the controller's current limit, the winding's copper "
-            f"loss is {'at least ' if math.isinf(theta) else ''}{f(loss)} W{drawn}."
-        )
-    else:
-        first = (
-            f"With no current limit a stalled motor draws {f(load.current)} A cold, falling to "
-            f"{f(current)} A as it heats; the winding's copper loss is then {f(loss)} W{drawn}."
-        )
-    cooling = "" if factor == 1.0 else f" with blocked airflow ({factor:.0%} of the cooling)"
-    limits = (
-        f"class {grade.letter} allows {f(grade.rise_limit_temperature)} °C "
-        f"({f(REFERENCE_COOLANT_C)} °C plus its {f(grade.rise_limit)} K rise limit) and its "
-        f"insulation is rated {f(grade.class_temperature)} °C"
-    )
-    if math.isinf(theta):
-        return (
-            f"{first} At {f(ambient)} °C ambient{cooling} no steady temperature exists: the loss "
-            f"grows with the winding's resistance faster than cooling removes it; {limits}."
-        )
-    life = ""
-    excess = theta - grade.class_temperature
-    if excess > _LIFE_QUOTE_SPAN_K:
-        life = f"; that is {f(excess)} K past its insulation rating"
-    elif excess > 0:
-        share = insulation_life_factor(theta, grade.class_temperature)
-        life = f"; insulation life falls to about {f(share, 2)} of its rated life"
-    return (
-        f"{first} At {f(ambient)} °C ambient{cooling} it settles at {f(theta)} °C; {limits}{life}."
-    )
-
-
-def _remedy(
-    load: _Load,
-    current: float,
-    allowed: float,
-    allowed_open: float,
-    factor: float,
-    ambient: float,
-    grade: ThermalClass,
-) -> str:
-    f = u.format_number
-    if allowed <= 0:
-        return (
-            f"do not run this motor at {f(ambient)} °C ambient: even without current it is over "
-            f"its class {grade.letter} limit; use a motor of a higher insulation class"
-        )
-    amps = _floor_tenth(allowed)
-    if load.stall_series_resistance is None:
-        text = f"set the current limit at or below {amps:g} A"
-    else:
-        text = (
-            f"fit a current limit at or below {amps:g} A (without one the motor can sit at its "
-            f"stall current, {f(load.current)} A cold)"
-        )
-    if factor < 1.0:
-        open_amps = _floor_tenth(allowed_open)
-        if load.stall_series_resistance is None and current <= allowed_open:
-            text += (
-                f", or unblock the fan's inlet and outlet (then up to {open_amps:g} A is allowed)"
-            )
-        else:
-            text += f"; unblocking the fan's inlet and outlet raises that to {open_amps:g} A"
-    return text
-
-
-def _floor_tenth(value: float) -> float:
-    return math.floor(value * 10.0 + 1e-9) / 10.0
 
 
 def _rise_source(grade: ThermalClass) -> Source:
@@ -378,7 +343,10 @@ RULE = Rule(
         "motors[].rated_current",
         "motors[].insulation_class",
         "motors[].cooling",
-        "controller.current_limit",
+        "controller.motor_current_limit",
+        "controller.motor_current_basis",
+        "controller.battery_current_limit",
+        "controller.drive",
         "battery",
         "usage.ambient_temperature",
     ),
