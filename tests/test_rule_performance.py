@@ -225,3 +225,19 @@ def test_missing_rated_current_is_unassessed_when_it_climbs() -> None:
     # a stall needs no rating to judge
     data["controller"]["motor_current_limit"] = "20 A"
     assert climb(data).severity is Severity.FIX
+
+
+def test_an_unstated_current_basis_climbs_on_the_least_torque() -> None:
+    # brief 11: under field-oriented drive a peak-quoted amp gives (sqrt 3 / 2) Ke_LL of
+    # torque, an rms-quoted one sqrt(3/2) Ke_LL; left unsaid, a hill is judged on the smaller
+    motor = {**KART["motors"][0], "type": "brushless"}
+
+    def brushless(**controller: str) -> dict[str, Any]:
+        limits = {"drive": "field-oriented", "motor_current_limit": "22 A", **controller}
+        return kart(motors=[motor], controller=limits)
+
+    peak = climb(brushless(motor_current_basis="peak"))
+    rms = climb(brushless(motor_current_basis="rms"))
+    unstated = climb(brushless())
+    assert unstated.severity == peak.severity and unstated.rationale == peak.rationale
+    assert rms.rationale != peak.rationale

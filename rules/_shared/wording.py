@@ -18,14 +18,16 @@ STALL_SOURCE = Source.from_memory(
 
 
 def drive_model(
-    build: Build, profile: Profile
+    build: Build, profile: Profile, bound: str = "high"
 ) -> tuple[Drive | None, list[Assumption], tuple[str, ...]]:
     """:func:`reviewer.figures.drive_model` with the profile's default Crr and CdA, and each
-    default the build relied on worded as an assumption of the review."""
+    default the build relied on worded as an assumption of the review. ``bound`` is the reading
+    of a motor limit whose basis or drive is unstated: ``high`` (most current: speed, heat),
+    ``low`` (least torque: climbing)."""
     crr_limit = profile.limit("usage.default_rolling_resistance")
     cda_limit = profile.limit("usage.default_drag_area")
     drive, defaults, missing = figures.drive_model(
-        build, float(crr_limit.value), in_unit(cda_limit.quantity, unit("m**2"))
+        build, float(crr_limit.value), in_unit(cda_limit.quantity, unit("m**2")), bound
     )
     notes = [
         Assumption(
@@ -42,6 +44,18 @@ def drive_model(
     if defaults.drag_area is not None:
         cda = defaults.drag_area
         notes.append(Assumption(f"Drag area not given: CdA {cda:g} m² taken.", cda_limit.source))
+    unstated = [
+        m.name for m in build.motors if (lim := figures.motor_limit(build, m)) and lim.basis_assumed
+    ]
+    if unstated:
+        reading = "the least torque it can mean" if bound == "low" else "the most current"
+        notes.append(
+            Assumption(
+                "controller.motor_current_basis (or controller.drive) not given: the motor "
+                f"current limit is read as {reading} (a peak or an rms figure, six-step or "
+                "field-oriented drive)."
+            )
+        )
     if defaults.efficiency:
         notes.append(
             Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")

@@ -78,7 +78,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     would climb it, each re-checked with the same model; for heat, the gearing that brings the
     climb current within the rated current.
     """
-    drive, _, missing = drive_model(build, profile)
+    drive, notes, missing = drive_model(build, profile, bound="low")  # least torque: climbing
     lacking = list(missing)
     if not build.riders:
         lacking.insert(0, "riders")
@@ -96,6 +96,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         )
         return
     assert build.usage.steepest_grade is not None and build.vehicle.mass is not None
+    yield from (note for note in notes if "motor_current_basis" in note.text)
     climb_speed = profile.limit("performance.hill.climb_speed")
     drive = yield from _climb_drive(build, drive, profile)
     rider = max(build.riders, key=lambda r: _in(r.mass, _KG))
