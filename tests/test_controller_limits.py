@@ -148,3 +148,31 @@ def test_kv_from_a_no_load_speed_takes_the_no_load_drop_out_once() -> None:
     }
     build = make_build({"motors": [motor]})
     assert build.motors[0].effective_kv.m_as("rpm/V") == pytest.approx(100.0)
+
+
+def test_the_schema_describes_the_new_fields_each_with_an_example_of_its_own() -> None:
+    from reviewer.build import build_json_schema
+
+    defs = build_json_schema()["$defs"]
+    fields = {
+        "Controller": (
+            "motor_current_limit",
+            "battery_current_limit",
+            "rated_continuous_current",
+            "peak_current",
+            "peak_duration",
+            "max_input_voltage",
+            "regen_current_limit",
+        ),
+        "Motor": ("winding_inductance",),
+    }
+    for model, names in fields.items():
+        for name in names:
+            field = defs[model]["properties"][name]
+            assert len(field["description"]) > 40, name  # its own words, then the unit's
+            assert field["examples"], name
+    controller = defs["Controller"]["properties"]
+    assert controller["peak_duration"]["examples"] == ["10 s"]  # not the generic "10 ms"
+    assert controller["motor_current_limit"]["description"].startswith("per motor")
+    for name in ("drive", "current_limit_kind", "motor_current_basis"):
+        assert controller[name].get("description"), name

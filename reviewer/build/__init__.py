@@ -135,7 +135,11 @@ def build_json_schema() -> dict[str, object]:
                 kept = [o for o in options if o != {"type": "null"}]
                 if len(kept) == 1 and len(kept) != len(options):
                     merged = {k: v for k, v in node.items() if k != "anyOf"}
-                    merged.update(kept[0])
+                    own = merged.get("description")
+                    merged.update({k: v for k, v in kept[0].items() if k not in merged})
+                    kind = kept[0].get("description")
+                    if own and kind and kind != own:  # the field's words, then its type's
+                        merged["description"] = f"{own}. {kind[0].upper()}{kind[1:]}"
                     node = merged
             if isinstance(node, dict):
                 if node.get("default", 0) is None:

@@ -98,7 +98,10 @@ class Motor(_Model):
         "(twice the phase resistance of a star winding)",
     )
     winding_inductance: Inductance | None = Field(
-        None, description="terminal to terminal (line to line for a brushless motor)"
+        None,
+        description="terminal to terminal (line to line for a brushless motor), from the "
+        "motor's datasheet or an LCR meter",
+        examples=["120 uH"],
     )
     pole_pairs: StrictInt | None = Field(
         None, ge=1, le=100, description="magnet pole pairs (a brushless motor's poles / 2)"
@@ -208,30 +211,51 @@ class Controller(_Model):
         None,
         description="per motor: the motor current the controller holds; for a brushless motor "
         "the phase current (say peak or rms in motor_current_basis); absent means none",
+        examples=["35 A"],
     )
     motor_current_basis: CurrentBasis | None = Field(
         None, description="whether a field-oriented controller's phase limit is peak or rms"
     )
     battery_current_limit: Current | None = Field(
-        None, description="per motor: the current the controller draws from the pack at most"
+        None,
+        description="per motor: the current the controller draws from the pack at most",
+        examples=["15 A"],
     )
-    drive: DriveKind | None = None
-    current_limit_kind: LimitKind | None = None
+    drive: DriveKind | None = Field(
+        None,
+        description="how the controller drives the motor: brushed, six-step (trapezoidal) or "
+        "field-oriented (sinusoidal); absent, the review takes the worse reading per check",
+    )
+    current_limit_kind: LimitKind | None = Field(
+        None,
+        description="hardware (a comparator acting within current_limit_response) or software "
+        "(acting no sooner than its averaging window); absent is taken as software",
+    )
     current_limit_response: Duration | None = Field(
         None, description="time from overcurrent to the limit acting"
     )
     rated_continuous_current: Current | None = Field(
-        None, description="the controller's datasheet continuous (motor or phase) current"
+        None,
+        description="the controller's datasheet continuous (motor or phase) current",
+        examples=["25 A"],
     )
-    peak_current: Current | None = Field(None, description="the datasheet peak current")
-    peak_duration: Duration | None = Field(None, description="how long the peak may last")
-    max_input_voltage: Voltage | None = Field(None, description="the datasheet input maximum")
+    peak_current: Current | None = Field(
+        None, description="the datasheet peak current", examples=["45 A"]
+    )
+    peak_duration: Duration | None = Field(
+        None, description="how long the datasheet peak current may last", examples=["10 s"]
+    )
+    max_input_voltage: Voltage | None = Field(
+        None, description="the datasheet's highest input (pack) voltage", examples=["60 V"]
+    )
     thermal_cutback: StrictBool | None = Field(
         None, description="it reduces current as it overheats (its datasheet says so)"
     )
     regen: StrictBool | None = Field(None, description="it brakes by driving current into the pack")
     regen_current_limit: Current | None = Field(
-        None, description="the most battery current regenerative braking drives into the pack"
+        None,
+        description="the most battery current regenerative braking drives into the pack",
+        examples=["5 A"],
     )
     max_duty: Fraction | None = None
     pwm_frequency: Frequency | None = None

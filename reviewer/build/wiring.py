@@ -41,7 +41,10 @@ class Insulation(enum.Enum):
 
 class Wire(_Model):
     name: Name
-    circuit: Circuit
+    circuit: Circuit = Field(
+        description="what the wire carries: battery (pack to controller), motor (brushed motor "
+        "leads), phase (brushless phase leads), logic, brake or other"
+    )
     motor: Name | None = Field(None, description="for motor-circuit wires in a multi-motor build")
     gauge: Gauge | None = None
     cross_section: Area | None = None
