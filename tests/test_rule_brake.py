@@ -251,3 +251,25 @@ def test_missing_inputs_are_named() -> None:
     finding = by_subject(data)["braking current and deceleration"]
     assert finding.severity is Severity.UNASSESSED
     assert set(finding.missing) == {"riders", "drivetrain.wheel_diameter"}
+
+
+def test_a_shorted_brushless_motor_brakes_less_once_its_inductance_counts() -> None:
+    # brief 14 (AC circuit theory): a shorted winding carries I = E / |R + j w_e L| and brakes
+    # with its I^2 R, so the resistive force falls by (R / |Z|)^2 at w_e = pole pairs x w
+    brushless = {**KART["motors"][0], "type": "brushless"}
+    data = kart(motors=[brushless], brake__relay_contact_rating="100 A")
+    upper = by_subject(data)["dynamic braking, rider 'Ada'"]
+    assert upper.severity is Severity.UNASSESSED  # an upper bound settles no pass
+    assert set(upper.missing) == {"motors[0].winding_inductance", "motors[0].pole_pairs"}
+    # the resistive figure F = Kt Ke reduction^2 v / (R r^2) gives the top speed it was taken at
+    per_speed = KT * KT * 25 / (0.4 * 0.01) / 100.0
+    resistive = upper.measured.m_as("m/s**2")
+    speed = resistive / per_speed
+    known = {**brushless, "winding_inductance": "300 uH", "pole_pairs": 7}
+    finding = by_subject(kart(motors=[known], brake__relay_contact_rating="100 A"))[
+        "dynamic braking, rider 'Ada'"
+    ]
+    omega = speed / 0.1 * 5  # motor rad/s: wheel radius 0.1 m, 5:1 reduction
+    share = 1 / (1 + (7 * omega * 300e-6 / 0.4) ** 2)
+    assert finding.measured.m_as("m/s**2") == pytest.approx(resistive * share, rel=1e-4)
+    assert finding.severity is Severity.FIX  # about 1.6 m/s^2 against 3.5 as the only brake

@@ -11,9 +11,9 @@ from dataclasses import dataclass
 
 from reviewer import figures
 from reviewer import units as u
-from reviewer.build import Brake, Build, Circuit, Motor
+from reviewer.build import Brake, Build, Circuit, Motor, MotorType
 from reviewer.engineering.braking import added_resistance_for, braking_force_per_speed
-from reviewer.engineering.roadload import Drive, ms_to_kmh
+from reviewer.engineering.roadload import Drive, motor_speed_for, ms_to_kmh
 from reviewer.units import in_unit
 
 _in = in_unit  # skips pint's conversion for fields already in the unit asked
@@ -124,3 +124,19 @@ def share_remedy(
         f"{text}, or lower the brake resistor to at most {resistor:.2f} ohm "
         f"({f(decel(resistor))} m/s²)"
     )
+
+
+def inductive_share(loop: BrakingLoop, drive: Drive, speed: float) -> float | None:
+    """The share of the resistive braking force a shorted winding gives at ground ``speed``
+    (m/s) once its inductance is counted: (R / |R + j w_e L|)^2, since I = E / |Z| and the
+    force comes from the I^2 R it dissipates (brief 14; AC circuit theory). Line-to-line R and
+    L give the same ratio as a phase's. 1 for a brushed motor (its commutated current is DC);
+    None for a brushless motor without ``winding_inductance`` or ``pole_pairs``."""
+    motor = loop.motor
+    if motor.type is not MotorType.BRUSHLESS:
+        return 1.0
+    if motor.winding_inductance is None or motor.pole_pairs is None:
+        return None
+    omega = motor_speed_for(speed, drive.reduction, drive.wheel_radius)
+    reactance = motor.pole_pairs * omega * in_unit(motor.winding_inductance, "H")
+    return 1.0 / (1.0 + (reactance / loop.resistance) ** 2)

@@ -23,6 +23,7 @@ from firstride_rules.brake._loops import (
     braking_loops,
     contact_remedy,
     force_per_speed,
+    inductive_share,
     share_remedy,
 )
 
@@ -187,7 +188,7 @@ def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
     minimum = profile.limit("brake.minimum_deceleration")
     fraction = profile.limit("brake.single_brake_fraction")
     for rider, mass, speed in zip(build.riders, masses, speeds, strict=True):
-        yield from _deceleration(brake, drive, loops, rider, mass, speed, minimum, fraction)
+        yield from _deceleration(build, drive, loops, rider, mass, speed, (minimum, fraction))
 
 
 def _contacts(
@@ -270,19 +271,32 @@ def _contacts(
 
 
 def _deceleration(
-    brake: Brake,
+    build: Build,
     drive: Drive,
     loops: list[BrakingLoop],
     rider: Rider,
     mass: float,
     speed: float,
-    minimum: Limit,
-    fraction: Limit,
+    limits: tuple[Limit, Limit],
 ) -> Iterator[Output]:
     """One rider's deceleration at their own top speed (``mass`` with the vehicle, kg)."""
+    minimum, fraction = limits
+    brake = build.brake
+    assert brake is not None
     f = u.format_number
     coefficient = force_per_speed(drive, loops)
-    decel = coefficient * speed / mass
+    shares = [inductive_share(loop, drive, speed) for loop in loops]
+    unknown = [loop.motor.name for loop, share in zip(loops, shares, strict=True) if share is None]
+    # With the inductance unknown, the resistive figure is an upper bound on a brushless
+    # motor's braking: it settles only a shortfall, never a pass.
+    decel = (
+        sum(
+            force_per_speed(drive, [loop]) * (1.0 if share is None else share)
+            for loop, share in zip(loops, shares, strict=True)
+        )
+        * speed
+        / mass
+    )
     full = _in(minimum.quantity, _MS2)
     beside_friction = brake.friction_brake is True
     share = float(fraction.value) if beside_friction else 1.0  # type: ignore[arg-type]
@@ -315,6 +329,22 @@ def _deceleration(
     severity = Severity.PASS
     if short:
         severity = Severity.ADVISE if beside_friction else Severity.FIX
+    missing: tuple[str, ...] = ()
+    if unknown:
+        names = ", ".join(f"'{name}'" for name in unknown)
+        rationale += (
+            f" The winding inductance of brushless motor {names} is not given: above "
+            "w_e = R / L a shorted winding's current stops rising with speed, so this figure, "
+            "which leaves it out, is an upper bound."
+        )
+        if not short:
+            severity = Severity.UNASSESSED
+            missing = tuple(
+                f"motors[{i}].{field}"
+                for i, motor in enumerate(build.motors)
+                for field in ("winding_inductance", "pole_pairs")
+                if motor.name in unknown and getattr(motor, field) is None
+            )
     remedy = None
     if short:
         remedy = (
@@ -331,6 +361,7 @@ def _deceleration(
         limit=u.quantity(needed, _MS2),
         comparison=Comparison.AT_LEAST,
         remedy=remedy,
+        missing=missing,
         sources=(GENERATOR, minimum.source, fraction.source)
         if beside_friction
         else (GENERATOR, minimum.source),
@@ -349,6 +380,8 @@ RULE = Rule(
         "battery",
         "motors[].kv",
         "motors[].winding_resistance",
+        "motors[].winding_inductance",
+        "motors[].pole_pairs",
         "drivetrain",
         "controller",
         "usage.rolling_resistance",

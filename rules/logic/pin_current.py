@@ -352,6 +352,8 @@ RULE = Rule(
     check=check,
     sources=(DATASHEET, INDUCTIVE_KICK, FLYBACK_PRACTICE),
     inputs=(
+        "logic.present",
+        "logic.pins",
         "logic.pin_current_max",
         "logic.total_current_max",
         "logic.port_groups",

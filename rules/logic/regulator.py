@@ -337,6 +337,7 @@ RULE = Rule(
     check=check,
     sources=(LINEAR_LOSS, JUNCTION, DATASHEET, TRADE_PRACTICE),
     inputs=(
+        "logic.present",
         "logic.regulator",
         "logic.board_current",
         "logic.loads",

@@ -243,6 +243,8 @@ RULE = Rule(
     check=check,
     sources=(ROAD_LOAD, MOTOR_MODEL, COPPER_LOSS),
     inputs=(
+        "motors[].no_load_speed",
+        "motors[].rated_voltage",
         "usage.steepest_grade",
         "riders",
         "vehicle.mass",

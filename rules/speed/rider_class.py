@@ -270,6 +270,8 @@ RULE = Rule(
     check=check,
     sources=(KT_DEFINITION, MOTOR_MODEL, ROAD_LOAD, ADULT_STOP_SOURCE),
     inputs=(
+        "motors[].no_load_speed",
+        "motors[].rated_voltage",
         "riders",
         "vehicle.mass",
         "battery",
