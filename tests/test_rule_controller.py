@@ -169,7 +169,7 @@ def test_default_ambient_is_flagged() -> None:
     data = build()
     del data["usage"]
     _, figures, assumptions = rule_outputs(SWITCH_THERMAL, data)
-    assert any("Ambient temperature not given" in a.text for a in assumptions)
+    assert any("usage.ambient_temperature not given" in a.text for a in assumptions)
     # JEDEC JESD51 sum from the profile's 35 degC: 35 + 7.035 W x 5.5 K/W = 73.7 degC
     assert figure(figures, "switch junction temperature") == pytest.approx(73.69, abs=0.01)
 

@@ -162,7 +162,7 @@ def test_port_group_limit() -> None:
 
 
 def test_load_on_two_port_groups_counts_uneven_sharing() -> None:
-    bar = {"name": "light bar", "pins": ["P4", "P8"], "current": "30 mA"}
+    bar = {"name": "light bar", "pins": ["P4", "P8"], "current": "30 mA", "inductive": False}
     data = _logic([bar])
     for group in data["logic"]["port_groups"]:
         group["current_max"] = "25 mA"
@@ -241,3 +241,14 @@ def test_a_board_said_absent_settles_the_pin_checks() -> None:
     findings = run_rule_on(RULE, {"logic": {"present": False}})
     assert [(f.subject, f.severity) for f in findings] == [("logic pins", Severity.PASS)]
     assert "no separate logic board" in findings[0].rationale
+
+
+def test_a_load_of_unstated_inductance_is_never_passed_as_resistive() -> None:
+    # Horowitz and Hill, The Art of Electronics (from memory): a coil switched off without a
+    # flyback path spikes; a load that may be one is not passed until the build says
+    lamp = {"name": "lamp", "pins": ["P2"], "current": "8 mA"}
+    found = _by_subject(_logic([lamp]))["load 'lamp'"]
+    assert found.severity is Severity.UNASSESSED
+    assert found.missing == ("logic.loads[0].inductive",)
+    said = _by_subject(_logic([{**lamp, "inductive": False}]))["load 'lamp'"]
+    assert said.severity is Severity.PASS

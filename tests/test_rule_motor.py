@@ -200,7 +200,7 @@ def test_default_ambient_is_flagged() -> None:
     data = build("10 A")
     del data["usage"]
     findings, _, assumptions = rule_outputs(RULE, data)
-    assert any("Ambient temperature not given" in a.text for a in assumptions)
+    assert any("usage.ambient_temperature not given" in a.text for a in assumptions)
     assert "35 °C" in findings[0].rationale
 
 

@@ -184,7 +184,7 @@ def test_defaults_are_flagged() -> None:
     texts = " ".join(note.text for note in notes)
     assert "quiescent current not given: 5 mA" in texts
     assert "junction temperature not given: 125 °C" in texts
-    assert "Ambient temperature not given: 35 °C" in texts
+    assert "usage.ambient_temperature not given: 35 °C" in texts
 
 
 def test_a_board_said_absent_passes_with_nothing_to_check() -> None:

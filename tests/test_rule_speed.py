@@ -228,9 +228,9 @@ def test_profile_defaults_are_flagged() -> None:
     _, _, given = rule_outputs(RULE, kart())
     _, _, defaulted = rule_outputs(RULE, kart(usage=None, drivetrain__efficiency=None))
     texts = " ".join(a.text for a in defaulted)
-    assert "Rolling resistance not given" in texts
-    assert "Drag area not given" in texts
-    assert "Drivetrain efficiency not given" in texts
+    assert "usage.rolling_resistance not given" in texts
+    assert "usage.drag_area not given" in texts
+    assert "drivetrain.efficiency not given" in texts
     assert not any("not given" in a.text for a in given)
 
 

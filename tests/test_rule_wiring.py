@@ -332,7 +332,7 @@ def test_voltage_drop_over_the_profile_limit_is_advise():
 def test_default_ambient_is_an_assumption():
     data = build(wire("pack positive", 10), controller=limit())
     _, _, assumptions = rule_outputs(RULE, data)
-    assert any("Ambient temperature not given" in a.text for a in assumptions)
+    assert any("usage.ambient_temperature not given" in a.text for a in assumptions)
     data["usage"] = {"ambient_temperature": "20 degC"}
     _, _, assumptions = rule_outputs(RULE, data)
     assert not any("Ambient temperature" in a.text for a in assumptions)

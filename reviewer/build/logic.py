@@ -38,7 +38,11 @@ class PinLoad(_Model):
     name: Name
     pins: list[Name] = Field(min_length=1, max_length=MAX_ITEMS)
     current: SmallCurrent
-    inductive: StrictBool = False
+    inductive: StrictBool | None = Field(
+        None,
+        description="a relay, solenoid or motor coil (true) or not (false); left out, the "
+        "load is not passed unless a flyback diode is fitted and it is not pin-driven",
+    )
     flyback_diode: StrictBool | None = None
     driver: Literal["pin", "transistor", "mosfet", "driver-ic"] = "pin"
 

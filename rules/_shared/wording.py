@@ -31,7 +31,7 @@ def drive_model(
     )
     notes = [
         Assumption(
-            f"Motor '{name}': no-load current not given, taken as 0 A "
+            f"Motor '{name}': no_load_current not given, taken as 0 A "
             "(no friction), which errs on the fast side."
         )
         for name in defaults.no_load_current
@@ -39,11 +39,16 @@ def drive_model(
     if defaults.rolling_resistance is not None:
         crr = defaults.rolling_resistance
         notes.append(
-            Assumption(f"Rolling resistance not given: Crr {crr:g} taken.", crr_limit.source)
+            Assumption(
+                f"usage.rolling_resistance not given: Crr {crr:g} taken.",
+                crr_limit.source,
+            )
         )
     if defaults.drag_area is not None:
         cda = defaults.drag_area
-        notes.append(Assumption(f"Drag area not given: CdA {cda:g} m² taken.", cda_limit.source))
+        notes.append(
+            Assumption(f"usage.drag_area not given: CdA {cda:g} m² taken.", cda_limit.source)
+        )
     unstated = [
         m.name for m in build.motors if (lim := figures.motor_limit(build, m)) and lim.basis_assumed
     ]
@@ -58,7 +63,7 @@ def drive_model(
         )
     if defaults.efficiency:
         notes.append(
-            Assumption("Drivetrain efficiency not given: 100 % taken, which errs on the fast side.")
+            Assumption("drivetrain.efficiency not given: 100 % taken, which errs on the fast side.")
         )
     return drive, notes, missing
 

@@ -150,8 +150,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     ambient = ambient_temperature(build, default_ambient)
     if build.usage.ambient_temperature is None:
         yield Assumption(
-            f"Ambient temperature not given: {u.format_number(ambient)} °C taken for the switch "
-            "junction temperature.",
+            f"usage.ambient_temperature not given: {u.format_number(ambient)} °C taken for the "
+            "switch junction temperature.",
             default_ambient.source,
         )
     yield Assumption(

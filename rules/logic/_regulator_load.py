@@ -105,7 +105,7 @@ def heat_defaults(
     ambient = figures.ambient_temperature(build, _in(default.quantity, _DEGC))
     if build.usage.ambient_temperature is None:
         yield Assumption(
-            f"Ambient temperature not given: {u.format_number(ambient)} °C taken for the "
+            f"usage.ambient_temperature not given: {u.format_number(ambient)} °C taken for the "
             "regulator.",
             default.source,
         )

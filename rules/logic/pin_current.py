@@ -123,7 +123,10 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         drawn[load.name] = pin_side_current(in_unit(load.current, MA), load.driver, gain)
     yield from _driver_assumptions(logic)
 
-    for load in logic.loads:
+    for index, load in enumerate(logic.loads):
+        if load.inductive is None and not (load.flyback_diode is True and load.driver != "pin"):
+            yield _unknown_coil(load, index)
+            continue
         yield _load_finding(load, drawn[load.name], imbalance, imbalance_limit)
 
     tallies = pin_tallies(logic, drawn, imbalance)
@@ -154,6 +157,21 @@ def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
             "A MOSFET gate or driver-IC input is taken to draw no steady current from its "
             "logic pin."
         )
+
+
+def _unknown_coil(load: PinLoad, index: int) -> Finding:
+    """A load whose inductance is not stated: it may be a relay, solenoid or motor coil, whose
+    turn-off spike needs a flyback path, so it is never passed as a plain resistive load."""
+    return Finding(
+        severity=Severity.UNASSESSED,
+        subject=f"load '{load.name}'",
+        rationale=(
+            "Whether it is inductive (a relay, solenoid or motor coil) is not stated, so "
+            "neither its turn-off spike nor its flyback diode can be judged."
+        ),
+        missing=(f"logic.loads[{index}].inductive",),
+        sources=(INDUCTIVE_KICK,),
+    )
 
 
 def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit: Limit) -> Finding:

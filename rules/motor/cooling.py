@@ -140,8 +140,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     ambient = figures.ambient_temperature(build, _in(default_ambient.quantity, _DEGC))
     if build.usage.ambient_temperature is None:
         yield Assumption(
-            f"Ambient temperature not given: {u.format_number(ambient)} °C taken for the motor "
-            "heating check.",
+            f"usage.ambient_temperature not given: {u.format_number(ambient)} °C taken for the "
+            "motor heating check.",
             default_ambient.source,
         )
     loop = figures.stall_loop(build)

@@ -116,26 +116,27 @@ def _climb_drive(
         limit = profile.limit("performance.hill.default_rolling_resistance")
         crr = float(limit.value)  # type: ignore[arg-type]
         yield Assumption(
-            f"Rolling resistance not given: Crr {crr:g} taken for hills.", limit.source
+            f"usage.rolling_resistance not given: Crr {crr:g} taken for hills.",
+            limit.source,
         )
     efficiency = drive.efficiency
     if build.drivetrain.efficiency is None:
         limit = profile.limit("performance.hill.default_drivetrain_efficiency")
         efficiency = _in(limit.quantity, _PERCENT) / 100.0
         yield Assumption(
-            f"Drivetrain efficiency not given: {u.format_number(efficiency * 100)} % taken for "
+            f"drivetrain.efficiency not given: {u.format_number(efficiency * 100)} % taken for "
             "hills.",
             limit.source,
         )
     if build.usage.drag_area is None:
         yield Assumption(
-            f"Drag area not given: CdA {drive.drag_area:g} m² taken.",
+            f"usage.drag_area not given: CdA {drive.drag_area:g} m² taken.",
             profile.limit("usage.default_drag_area").source,
         )
     for motor in build.motors:
         if motor.no_load_current is None:
             yield Assumption(
-                f"Motor '{motor.name}': no-load current not given, taken as 0 A, which "
+                f"Motor '{motor.name}': no_load_current not given, taken as 0 A, which "
                 "understates the current a climb needs."
             )
     return replace(drive, rolling_resistance=crr, efficiency=efficiency)

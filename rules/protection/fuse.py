@@ -331,7 +331,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         default = profile.limit("usage.default_ambient_temperature")
         ambient = in_unit(default.quantity, "degC")
         yield Assumption(
-            f"Ambient temperature not given: {_n(ambient)} °C taken for wires.", default.source
+            f"usage.ambient_temperature not given: {_n(ambient)} °C taken for wires.",
+            default.source,
         )
     design = design_current(build)
     fault = _fault(build, full)

@@ -127,6 +127,8 @@ def _limit_acting(ctx: StallContext, record: bool) -> Acting:
             f"How soon {who} acts is not known ({inputs} not given): taken to act within "
             f"the profile's assumed clearing time, {format_number(seconds)} s."
         )
+        if response.kind == "software (kind unstated)":
+            text = "controller.current_limit_kind not given: taken as software. " + text
         ctx.note(text, source)
     return Acting(seconds, who, True)
 

@@ -179,7 +179,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         )
         ctx.note(text, CURRENT_BASIS)
     if default is not None:
-        text = f"Ambient temperature not given: {format_number(ambient)} °C taken for wires."
+        text = f"usage.ambient_temperature not given: {format_number(ambient)} °C taken for wires."
         ctx.note(text, default.source)
     if not loop.pack_resistance_known:
         text = (
