@@ -134,3 +134,21 @@ def test_any_rule_that_fails_keeps_the_review_from_go(monkeypatch) -> None:
         monkeypatch.setattr(SESSION.manager, "rules", lambda rules=rules: rules)
         assert SESSION.review_build(build).verdict is not Verdict.GO, rule.id
         monkeypatch.undo()
+
+
+@pytest.mark.parametrize("sample", GO_SAMPLES)
+def test_no_single_removed_input_gives_an_unnamed_go(sample: str) -> None:
+    # every leaf, one at a time: the exhaustive companion of the property test above
+    tree = tomllib.loads((SAMPLES / sample).read_text())
+    unnamed = []
+    for path in leaves(tree):
+        if str(path[-1]) in LABELS or path[0] == "vehicle":
+            continue
+        try:
+            build = Build.model_validate(without(tree, [path]))
+        except ValidationError:
+            continue
+        review = SESSION.review_build(build)
+        if review.verdict is Verdict.GO and not names(review, path) and used(tree, path):
+            unnamed.append(dotted(path))
+    assert unnamed == [], unnamed

@@ -34,6 +34,7 @@ CONTROLLER: dict[str, Any] = {
     "current_limit_kind": "software",
     "pwm_frequency": "4 kHz",
     "switch_on_resistance": f"{SWITCH} ohm",
+    "switch_max_current": "60 A",
     "switch_rise_time": "100 ns",
     "switch_fall_time": "100 ns",
     "switch_max_junction_temperature": "150 degC",
@@ -71,6 +72,11 @@ def figure(figures: list, name: str) -> float:
     matches = [f for f in figures if f.name == name]
     assert len(matches) == 1, [f.name for f in figures]
     return float(matches[0].value.magnitude)
+
+
+def junction(findings: list[Finding]) -> Finding:
+    """The junction-temperature finding (the switch's current rating is judged beside it)."""
+    return next(f for f in findings if f.subject != "controller switch current rating")
 
 
 def number_in(text: str | None, pattern: str) -> float:
@@ -118,13 +124,13 @@ def test_switch_losses_and_junction_temperature_by_hand() -> None:
     ],
 )
 def test_junction_against_rating_and_margin(sink_air: str, severity: Severity) -> None:
-    finding = run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air=sink_air))[0]
+    finding = junction(run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air=sink_air)))
     assert finding.severity is severity
 
 
 def test_hot_switch_remedies_each_pass_when_rerun() -> None:
     # JEDEC JESD51 sum: each remedy value alone brings Tj to 125 degC or below
-    finding = run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air="20 K/W"))[0]
+    finding = junction(run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air="20 K/W")))
     assert finding.severity is Severity.STOP
     sink = number_in(finding.remedy, r"heatsink of at most ([\d.]+) K/W")
     amps = number_in(finding.remedy, r"current limit at or below ([\d.]+) A")
@@ -135,12 +141,12 @@ def test_hot_switch_remedies_each_pass_when_rerun() -> None:
         build(switch_thermal_resistance_sink_air="20 K/W", switch_on_resistance=f"{milliohm} mohm"),
     ]
     for data in reruns:
-        assert run_rule_on(SWITCH_THERMAL, data)[0].severity is Severity.PASS
+        assert junction(run_rule_on(SWITCH_THERMAL, data)).severity is Severity.PASS
     # and the current is the highest tenth of an ampere that passes
     over = build(
         switch_thermal_resistance_sink_air="20 K/W", motor_current_limit=f"{amps + 0.1:.1f} A"
     )
-    assert run_rule_on(SWITCH_THERMAL, over)[0].severity is not Severity.PASS
+    assert junction(run_rule_on(SWITCH_THERMAL, over)).severity is not Severity.PASS
 
 
 def test_max_duty_scales_the_conduction_loss() -> None:
@@ -159,7 +165,7 @@ def test_no_current_limit_checks_the_stall_current() -> None:
     assert figure(figures, "switch conduction loss") == pytest.approx(
         STALL**2 * SWITCH * HOT_FACTOR
     )
-    finding = findings[0]
+    finding = junction(findings)
     assert finding.severity is Severity.STOP  # 217 W into 5.5 K/W
     assert "fit a current limit" in finding.remedy
     assert any("No controller current limit" in a.text for a in assumptions)
@@ -177,7 +183,7 @@ def test_default_ambient_is_flagged() -> None:
 def test_switch_thermal_names_missing_fields() -> None:
     data = build()
     data["controller"] = {"motor_current_limit": "20 A"}
-    finding = run_rule_on(SWITCH_THERMAL, data)[0]
+    finding = junction(run_rule_on(SWITCH_THERMAL, data))
     assert finding.severity is Severity.UNASSESSED
     assert finding.missing == (
         "controller.switch_on_resistance",
@@ -194,7 +200,7 @@ def test_switch_thermal_names_missing_fields() -> None:
 def test_switch_thermal_without_limit_or_stall_inputs() -> None:
     data = build(motor_current_limit=None)
     del data["battery"]
-    finding = run_rule_on(SWITCH_THERMAL, data)[0]
+    finding = junction(run_rule_on(SWITCH_THERMAL, data))
     assert finding.severity is Severity.UNASSESSED
     assert finding.missing == ("battery", "controller.motor_current_limit")
 
@@ -202,7 +208,7 @@ def test_switch_thermal_without_limit_or_stall_inputs() -> None:
 def test_no_controller_names_every_switch_field() -> None:
     data = build()
     del data["controller"]
-    finding = run_rule_on(SWITCH_THERMAL, data)[0]
+    finding = junction(run_rule_on(SWITCH_THERMAL, data))
     assert finding.severity is Severity.UNASSESSED
     # the eight switch fields; the current is known without a limit (the stall current)
     assert len(finding.missing) == 8
@@ -223,7 +229,7 @@ def test_freewheel_diode_keeps_the_switch_cool() -> None:
     assert "avalanche" in without[0].rationale
     with_diode = run_rule_on(FREEWHEEL, build())
     assert {f.severity for f in with_diode} == {Severity.PASS}
-    assert run_rule_on(SWITCH_THERMAL, build())[0].severity is Severity.PASS
+    assert junction(run_rule_on(SWITCH_THERMAL, build())).severity is Severity.PASS
 
 
 def test_missing_diode_remedy_names_ratings_that_pass() -> None:

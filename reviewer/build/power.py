@@ -42,7 +42,15 @@ class Chemistry(enum.Enum):
 class Battery(_Model):
     chemistry: Chemistry
     cells_series: StrictInt = Field(ge=1, le=40)
-    cells_parallel: StrictInt = Field(1, ge=1, le=40)
+    cells_parallel: StrictInt | None = Field(
+        None,
+        ge=1,
+        le=40,
+        description="strings of cells in parallel; left out, one string is taken for what the "
+        "pack delivers and the pack's internal resistance is taken as unknown (the higher "
+        "stall and fault current)",
+        examples=[3],
+    )
     cell_capacity: Charge | None = None
     cell_continuous_current: Current | None = None
     cell_c_rate: StrictFloat | None = Field(None, gt=0, le=500, description="continuous C-rating")

@@ -27,8 +27,9 @@ def pack_voltages(battery: Battery) -> PackVoltages:
 
 
 def pack_resistance(battery: Battery) -> float | None:
-    """Internal resistance of the whole pack in ohm, if the builder gave the cells'."""
-    if battery.cell_internal_resistance is None:
+    """Internal resistance of the whole pack in ohm, if the builder gave the cells' and the
+    strings in parallel (more strings, lower resistance: unknown is not taken as one)."""
+    if battery.cell_internal_resistance is None or battery.cells_parallel is None:
         return None
     cell = in_unit(battery.cell_internal_resistance, "ohm")
     return cell * battery.cells_series / battery.cells_parallel

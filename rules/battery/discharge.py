@@ -21,7 +21,7 @@ from reviewer.engineering.cells import (
     string_continuous_current,
     strings_needed,
 )
-from reviewer.findings import Comparison, DerivedFigure, Finding, Severity, Source
+from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
 from reviewer.units import format_number, in_unit, quantity
@@ -128,8 +128,8 @@ def _pack_figures(battery: Battery) -> Iterator[DerivedFigure]:
         f"{series} cells in series at {_n(cell.full)} V",
         order=20,
     )
-    if battery.cell_capacity is None:
-        return
+    if battery.cell_capacity is None or battery.cells_parallel is None:
+        return  # with the strings unknown, one would understate the energy (and its class)
     capacity_ah = in_unit(battery.cell_capacity, "mAh") / 1000
     parallel = battery.cells_parallel
     energy = pack_energy_wh(cell.nominal, series, capacity_ah, parallel)
@@ -212,7 +212,12 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             sources=(CAPABILITY, STALL),
         )
         return
-    parallel = battery.cells_parallel
+    parallel = battery.cells_parallel or 1
+    if battery.cells_parallel is None:
+        yield Assumption(
+            "battery.cells_parallel not given: one string taken, the least the pack can deliver.",
+            CAPABILITY,
+        )
     capability = pack_continuous_current(string_a, parallel)
     total = demand.current + aux.current
     yield DerivedFigure(
@@ -264,7 +269,7 @@ def _discharge_remedy(
     build: Build, string_a: float, capability: float, total: float, aux: float
 ) -> str:
     assert build.battery is not None
-    parallel = build.battery.cells_parallel
+    parallel = build.battery.cells_parallel or 1
     count = len(build.motors)
     parts = []
     per_motor = math.floor((capability - aux) / count + _EPSILON)

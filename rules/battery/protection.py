@@ -139,7 +139,8 @@ def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
                 Severity.PASS,
                 subject,
                 f"The battery management system disconnects the pack before a cell falls below "
-                f"its cut-off ({_n(cell.cutoff)} V per cell, {_n(required)} V for the pack).",
+                f"its cut-off ({_n(cell.cutoff)} V per cell, {_n(required)} V for the pack); no "
+                "battery.low_voltage_cutoff is given, so the BMS's is the one relied on.",
                 sources=(CELL_LIMITS,),
             )
         return Finding(

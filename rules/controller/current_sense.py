@@ -127,8 +127,9 @@ def _undescribed(build: Build, controller: Controller | None) -> Finding:
         return Finding(
             Severity.PASS,
             "current sensor",
-            "No current sensor is described and the limit is a hardware one, so there is no "
-            "sampled current measurement to check.",
+            "No current sensor is described (controller.current_sensor_range, "
+            "current_samples_averaged and current_sample_rate not given) and the limit is a "
+            "hardware one, so there is no sampled current measurement to check.",
             sources=sources,
         )
     said = "claims a software" if controller.current_limit_kind else "does not say what kind of"

@@ -107,8 +107,9 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     heatsink can), the current limit that does, and the 25 degC on-resistance that does.
     """
     controller = build.controller
-    if controller is not None and controller.switch_max_current is not None:
-        yield from (f for f in rating_findings(build) if "switch" in f.subject)
+    if controller is not None and not sealed(controller):  # its switches are described
+        switch = ("switch_max_current",)
+        yield from (f for f in rating_findings(build, switch) if "switch" in f.subject)
     if sealed(controller) and has_ratings(controller):
         yield Finding(
             Severity.PASS,

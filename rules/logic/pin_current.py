@@ -159,6 +159,12 @@ def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
         )
 
 
+def _diode_words(load: PinLoad) -> str:
+    if load.inductive is None:
+        return "; whether it is inductive is not stated, and its flyback diode covers either case"
+    return "; flyback diode fitted" if load.inductive else ""
+
+
 def _unknown_coil(load: PinLoad, index: int) -> Finding:
     """A load whose inductance is not stated: it may be a relay, solenoid or motor coil, whose
     turn-off spike needs a flyback path, so it is never passed as a plain resistive load."""
@@ -219,7 +225,7 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
             severity=Severity.PASS,
             subject=subject,
             rationale=f"{ma(current)} load driven by {_driver_words(load)} on "
-            f"{', '.join(pins)}{'; flyback diode fitted' if load.inductive else ''}.",
+            f"{', '.join(pins)}{_diode_words(load)}.",
             measured=quantity(drawn, MA),
             sources=(DATASHEET,),
         )

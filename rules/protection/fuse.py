@@ -10,10 +10,14 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
-from dataclasses import dataclass
 
-import pint
-from firstride_rules._shared import voltage_rating as ratings
+from firstride_rules.protection._breaking import (
+    FUSE_VOLTAGE,
+    SHORT_CIRCUIT,
+    Fault,
+    fault_current,
+    interruption,
+)
 from firstride_rules.protection._currents import (
     THIN_WIRE,
     THINNER_CEILING,
@@ -27,9 +31,7 @@ from firstride_rules.protection._currents import (
 from reviewer import figures
 from reviewer.build import Build, Fuse
 from reviewer.engineering.fuses import (
-    prospective_fault_current,
     rating_window,
-    source_resistance_needed,
 )
 from reviewer.findings import Assumption, Comparison, DerivedFigure, Finding, Severity, Source
 from reviewer.profile import Profile
@@ -44,15 +46,6 @@ SMALL_CONDUCTORS = Source(
     "NEC (NFPA 70) 240.4(D): protection of at most 7 A for 18 AWG, 10 A 16 AWG, 15 A 14 AWG, "
     "20 A 12 AWG, 30 A 10 AWG copper"
 )
-SHORT_CIRCUIT = Source.from_memory(
-    "IEC 60364-4-43 clause 434: a device must break any short-circuit current before it harms "
-    "the conductors; its breaking capacity at least the prospective current V / (R_source + "
-    "R_loop)"
-)
-FUSE_VOLTAGE = Source(
-    "ISO 8820-3: blade fuses rated 32 V or 58 V DC with 1000 A breaking capacity; a fuse "
-    "interrupts only at or below its rated voltage"
-)
 AMPACITY = Source(
     "NEC Table 310.16 and FAA AC 43.13-1B Table 11-9 (or the wire's datasheet), corrected for "
     "ambient and bundling as in wiring.stall-current"
@@ -63,29 +56,6 @@ _EPSILON = 1e-9
 
 def _n(value: float) -> str:
     return format_number(value)
-
-
-@dataclass(frozen=True)
-class _Fault:
-    """The prospective short-circuit current at the controller input, if it can be formed."""
-
-    current: float | None
-    source: float | None  # pack internal resistance, ohm
-    loop: float  # battery-circuit wires, ohm
-
-
-def _fault(build: Build, full: float) -> _Fault:
-    loop = sum(figures.wire_resistance(w) for w in figures.shared_wires(build))
-    assert build.battery is not None
-    source = figures.pack_resistance(build.battery)
-    if source is None and loop <= 0:
-        return _Fault(None, None, loop)
-    return _Fault(prospective_fault_current(full, source or 0.0, loop), source, loop)
-
-
-def _amps(value: float) -> str:
-    """Whole amperes from 100 A up (a breaking capacity reads '1000 A', not '1×10^3 A')."""
-    return f"{value:.0f} A" if value >= 100 else f"{_n(value)} A"
 
 
 def _window(build: Build, design: Design, capacity: Capacity) -> str:
@@ -123,7 +93,7 @@ def _window(build: Build, design: Design, capacity: Capacity) -> str:
 
 
 def _missing_fuse(
-    build: Build, full: float, design: Design, capacity: Capacity, fault: _Fault
+    build: Build, full: float, design: Design, capacity: Capacity, fault: Fault
 ) -> Finding:
     unlimited = not figures.any_limit(build)
     text = (
@@ -182,84 +152,6 @@ def _coordination(build: Build, fuse: Fuse, design: Design, capacity: Capacity) 
     sources = (COORDINATION, SMALL_CONDUCTORS, AMPACITY, *capacity.sources)
     missing = missing if severity is Severity.UNASSESSED else ()
     return Finding(severity, subject, text, measured, limit, comparison, remedy, sources, missing)
-
-
-def _maybe(amount: pint.Quantity | None, target: str) -> float | None:
-    return None if amount is None else in_unit(amount, target)
-
-
-def _interruption(
-    build: Build, index: int, fuse: Fuse, full: float, fault: _Fault
-) -> Iterator[Output]:
-    sources = (SHORT_CIRCUIT, FUSE_VOLTAGE)
-    rating = ratings.fuse_voltage_rating(build, index)
-    assert rating is not None  # the pack is known
-    # judged as voltage.ratings judges the same fuse: one function, one severity, one wording
-    yield rating.finding(f"fuse '{fuse.name}' voltage rating", sources)
-    if rating.severity is Severity.STOP:
-        return  # its breaking capacity holds only up to its rated voltage: nothing to add
-    subject = f"fuse '{fuse.name}' interrupting rating"
-    volts = rating.rated
-    breaking = _maybe(fuse.breaking_capacity, "A")
-    missing = [] if breaking is not None else [f"fuses[{index}].breaking_capacity"]
-    if fault.current is None:
-        missing += ["battery.cell_internal_resistance", "wires"]
-    if missing:
-        yield Finding(
-            Severity.UNASSESSED,
-            subject,
-            "Its breaking capacity and the prospective short-circuit current (pack internal "
-            "resistance or battery wires) are both needed.",
-            missing=tuple(missing),
-            sources=sources,
-        )
-        return
-    assert breaking is not None and fault.current is not None
-    text = (
-        f"A short at the controller input draws {_amps(fault.current)} from the {_n(full)} V "
-        f"pack through {_n(fault.loop * 1000)} mΩ of battery wiring"
-    )
-    if fault.source is None:
-        text += " (worst case: the pack's internal resistance is not given)"
-        yield Assumption(
-            "battery.cell_internal_resistance not given: the prospective short-circuit current "
-            "counts the battery wires only, which overstates it.",
-            SHORT_CIRCUIT,
-        )
-    else:
-        text += f" and {_n(fault.source * 1000)} mΩ inside the pack"
-    at = f" at {_n(volts)} V DC" if volts is not None else ""
-    text += f"; the fuse breaks up to {_amps(breaking)}{at}."
-    remedy = f"use a fuse with a breaking capacity of at least {math.ceil(fault.current)} A DC"
-    if fault.source is None:
-        remedy = f"give battery.cell_internal_resistance, or {remedy}"
-    if fault.current <= breaking + _EPSILON:
-        severity, remedy = Severity.PASS, None
-        missing_fields: tuple[str, ...] = ()
-    elif fault.source is None:
-        severity = Severity.UNASSESSED
-        assert build.battery is not None
-        needed = source_resistance_needed(full, breaking, fault.loop)
-        per_cell = needed * build.battery.cells_parallel / build.battery.cells_series
-        missing_fields = ("battery.cell_internal_resistance",)
-        text += (
-            f" It suffices if each cell's internal resistance is at least "
-            f"{_n(per_cell * 1000)} mΩ (the pack's {_n(needed * 1000)} mΩ)."
-        )
-    else:
-        severity, missing_fields = Severity.STOP, ()
-        text += " It may fail to clear the short."
-    yield Finding(
-        severity,
-        subject,
-        text,
-        quantity(fault.current, "A"),
-        quantity(breaking, "A"),
-        Comparison.AT_MOST,
-        remedy,
-        sources,
-        missing_fields,
-    )
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -335,7 +227,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             default.source,
         )
     design = design_current(build)
-    fault = _fault(build, full)
+    fault = fault_current(build, full)
     if fault.current is not None:
         note = "pack and battery wires at 20 °C, shorted at the controller input"
         if fault.source is None:
@@ -351,7 +243,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     for index, fuse in fuses:
         capacity = wire_capacity(protected_wires(build, fuse), ambient)
         yield _coordination(build, fuse, design, capacity)
-        yield from _interruption(build, index, fuse, full, fault)
+        yield from interruption(build, index, fuse, full, fault)
 
 
 RULE = Rule(
