@@ -124,13 +124,17 @@ def test_switch_losses_and_junction_temperature_by_hand() -> None:
     ],
 )
 def test_junction_against_rating_and_margin(sink_air: str, severity: Severity) -> None:
-    finding = junction(run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air=sink_air)))
+    finding = junction(
+        run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air=sink_air))
+    )
     assert finding.severity is severity
 
 
 def test_hot_switch_remedies_each_pass_when_rerun() -> None:
     # JEDEC JESD51 sum: each remedy value alone brings Tj to 125 degC or below
-    finding = junction(run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air="20 K/W")))
+    finding = junction(
+        run_rule_on(SWITCH_THERMAL, build(switch_thermal_resistance_sink_air="20 K/W"))
+    )
     assert finding.severity is Severity.STOP
     sink = number_in(finding.remedy, r"heatsink of at most ([\d.]+) K/W")
     amps = number_in(finding.remedy, r"current limit at or below ([\d.]+) A")

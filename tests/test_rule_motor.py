@@ -288,3 +288,38 @@ def test_a_battery_limit_alone_holds_the_pack_power_not_the_current() -> None:
     assert figure(figures, "input power") == pytest.approx(2 * 12 * 2.15, rel=1e-6)
     assert figure(figures, "copper loss") == pytest.approx(2 * 12 * 2.15, rel=1e-6)
     assert "battery current limit" in findings[0].rationale
+
+
+def test_the_loop_outside_the_winding_counts_in_the_power_drawn() -> None:
+    # energy balance at a locked rotor: the pack delivers I^2 (R_hot + R_series), with R_series
+    # the motor's own leads (CRC handbook: 14 AWG 8.286 ohm/km at 20 degC) and the pack
+    # (12 cells x 0.01 ohm / 1 string); the winding takes only its I^2 R_hot share of it
+    lead = {"name": "lead", "circuit": "motor", "gauge": "14 AWG", "length": "1 m"}
+    data = build(None)
+    data["battery"].update(cell_internal_resistance="0.01 ohm", cells_parallel=1)
+    data["wires"] = [lead]
+    findings, figures, _ = rule_outputs(RULE, data)
+    series = 8.286e-3 + 12 * 0.01
+    hot = 0.3 * (234.5 + findings[0].measured.m_as("degC")) / 254.5  # IEC 60028 basis
+    current = 12 * 2.15 / (hot + series)  # voltage-fed: no limit (Linden, from memory)
+    assert figure(figures, "input power") == pytest.approx(current**2 * (hot + series), rel=1e-4)
+    assert figure(figures, "copper loss") == pytest.approx(current**2 * hot, rel=1e-4)
+
+
+def test_the_cold_stall_current_is_quoted_at_20_degc() -> None:
+    # Chapman (from memory): a locked rotor draws V / R cold; 25.8 V over 0.3 ohm is 86 A
+    finding = only(run_rule_on(RULE, build(None)))
+    assert "draws 86 A cold" in finding.rationale
+
+
+def test_another_motors_missing_winding_is_named_for_the_stall() -> None:
+    # the stall loop shares the pack between motors: each one's current needs every winding
+    second = {**copy.deepcopy(MOTOR), "name": "front"}
+    del second["winding_resistance"]
+    data = build(None)
+    data["motors"].append(second)
+    findings = run_rule_on(RULE, data)
+    rear = next(f for f in findings if f.subject == "motor 'rear'")
+    assert rear.severity is Severity.UNASSESSED
+    assert "motors[1].winding_resistance" in rear.missing
+    assert "motors[0].winding_resistance" not in rear.missing

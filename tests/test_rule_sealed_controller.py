@@ -15,7 +15,12 @@ from reviewer.testing import run_rule_on, variant
 
 # Invented parts: a 10S li-ion pack (42 V full: 10 x 4.2 V, Linden, from memory) and a hub motor.
 BUILD: dict[str, Any] = {
-    "battery": {"chemistry": "li-ion", "cells_series": 10, "cells_parallel": 1, "cell_internal_resistance": "0.03 ohm"},
+    "battery": {
+        "chemistry": "li-ion",
+        "cells_series": 10,
+        "cells_parallel": 1,
+        "cell_internal_resistance": "0.03 ohm",
+    },
     "motors": [
         {"name": "hub", "type": "brushless", "kv": "12 rpm/V", "winding_resistance": "0.24 ohm"}
     ],
