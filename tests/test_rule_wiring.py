@@ -446,3 +446,17 @@ def test_rating_below_every_column_stays_unassessed():
     finding = on(run_rule_on(RULE, data), "wire 'pack positive'")
     assert finding.severity is Severity.UNASSESSED
     assert finding.missing == ("wires[0].rated_ampacity",)
+
+
+def test_a_wire_exactly_at_its_ampacity_carries_it() -> None:
+    # IEC 60364-4-43 433.1: Ib <= Iz, equality allowed. A datasheet ampacity read for 30 degC
+    # air, at 30 degC ambient and unbundled, is the rating itself; a 20 A hardware limit (held
+    # well below the stall) makes the design current exactly 20 A
+    rated = wire("pack positive", 12, rated_ampacity="20 A")
+    data = build(rated, controller=limit("20 A"), usage={"ambient_temperature": "30 degC"})
+    finding = on(run_rule_on(RULE, data), "wire 'pack positive'")
+    assert finding.measured.m_as("A") == pytest.approx(20.0)
+    assert finding.limit.m_as("A") == pytest.approx(20.0)
+    assert finding.severity is Severity.PASS
+    over = build(rated, controller=limit("20.1 A"), usage={"ambient_temperature": "30 degC"})
+    assert on(run_rule_on(RULE, over), "wire 'pack positive'").severity is Severity.FIX
