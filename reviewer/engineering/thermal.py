@@ -174,33 +174,9 @@ def steady_winding_temperature_fed(
     V^2 R / (R_series + R)^2 is the one at which theta = theta_amb + (R_th / k) x loss holds;
     the lowest such temperature (the one reached heating up from ambient) is returned.
     """
-    if cooling_factor <= 0:
-        raise ValueError("cooling factor must be positive")
-    effective = thermal_resistance / cooling_factor
-
-    def surplus(theta: float) -> float:
-        winding = copper_resistance_at(resistance_20c, theta)
-        current = voltage / (series_resistance + winding)
-        return ambient_c + effective * current * current * winding - theta
-
-    # The loss never exceeds V^2 / R(theta_amb), which bounds the temperature from above.
-    cold = copper_resistance_at(resistance_20c, ambient_c)
-    high = ambient_c + effective * voltage * voltage / cold + 1.0
-    steps = 64
-    low = ambient_c
-    for step in range(1, steps + 1):
-        upper = ambient_c + (high - ambient_c) * step / steps
-        if surplus(upper) <= 0:
-            high = upper
-            break
-        low = upper
-    for _ in range(100):
-        middle = 0.5 * (low + high)
-        if surplus(middle) > 0:
-            low = middle
-        else:
-            high = middle
-    return 0.5 * (low + high)
+    return steady_winding_temperature_held(
+        voltage, series_resistance, resistance_20c, thermal_resistance, ambient_c, cooling_factor
+    )
 
 
 def held_current(
