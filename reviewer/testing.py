@@ -47,14 +47,17 @@ def make_build(data: Mapping[str, Any]) -> Build:
 
 def variant(base: Mapping[str, Any], **changes: Any) -> dict[str, Any]:
     """A deep copy of a build dict with fields changed by path: ``battery__cells_series=7``
-    sets ``battery.cells_series``; a value of None removes the field."""
+    sets ``battery.cells_series``, ``brakes__0__kind="foot"`` the first brake's kind; a value
+    of None removes the field."""
     data = copy.deepcopy(dict(base))
     for path, value in changes.items():
-        node = data
+        node: Any = data
         *parents, leaf = path.split("__")
         for key in parents:
-            node = node.setdefault(key, {})
-        if value is None:
+            node = node[int(key)] if isinstance(node, list) else node.setdefault(key, {})
+        if isinstance(node, list):
+            node[int(leaf)] = value
+        elif value is None:
             node.pop(leaf, None)
         else:
             node[leaf] = value

@@ -38,6 +38,10 @@ RULE_IDS = (
     "logic.regulator",
     "brake.dynamic",
     "performance.hill",
+    # stopping
+    "brake.stopping",
+    "brake.regenerative",
+    "speed.descent",
 )
 
 

@@ -24,6 +24,8 @@ IDENTITY = {
     "wires.name": "labels findings; fuses refer to it",
     "fuses.name": "labels findings",
     "riders.name": "labels findings",
+    "brakes.name": "labels findings",
+    "brake": "the retired single [brake] table: read only to explain [[brakes]] as an error",
     "extensions": "a pack's own table, validated by that pack",
 }
 

@@ -202,7 +202,7 @@ def test_small_loads_are_added_to_the_demand():
         pack,
         limit="20 A",
         logic={"board_current": "120 mA"},
-        brake={"kind": "dynamic", "coil_current": "60 mA"},
+        brakes=[{"kind": "dynamic", "coil_current": "60 mA"}],
     )
     finding = only(run_rule_on(DISCHARGE_RULE, data))
     assert finding.severity is Severity.PASS

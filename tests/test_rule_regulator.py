@@ -158,7 +158,7 @@ def test_switching_regulator_over_its_input_rating_is_stop() -> None:
 def test_brake_coil_on_the_rail_is_added() -> None:
     # P = (Vin - Vout) I_out + Vin I_q with a 60 mA relay coil (common practice: a relay
     # with a coil near 60 mA) on the rail besides the 100 mA board
-    data = build(brake={"kind": "dynamic", "coil_current": "60 mA"})
+    data = build(brakes=[{"kind": "dynamic", "coil_current": "60 mA"}])
     assert figure(data, "logic rail current").m_as("mA") == pytest.approx(160.0)
     assert figure(data, "logic regulator dissipation").m_as("W") == pytest.approx(
         37.0 * 0.16 + 42.0 * 0.005
@@ -168,7 +168,7 @@ def test_brake_coil_on_the_rail_is_added() -> None:
 def test_brake_coil_listed_as_a_logic_load_is_counted_once() -> None:
     coil = {"name": "brake relay", "pins": ["P5"], "current": "60 mA", "inductive": True}
     lamp = {"name": "lamp", "pins": ["P6"], "current": "10 mA"}
-    data = build(brake={"kind": "dynamic", "coil_current": "60 mA"})
+    data = build(brakes=[{"kind": "dynamic", "coil_current": "60 mA"}])
     data["logic"]["loads"] = [coil, lamp]
     assert figure(data, "logic rail current").m_as("mA") == pytest.approx(170.0)
     _, _, notes = rule_outputs(RULE, data)

@@ -161,11 +161,11 @@ def test_regulator_sees_a_charger_above_the_full_pack():
 
 def test_brake_relay_contacts():
     brake = {"kind": "dynamic", "relay_contact_rating": "30 A", "relay_contact_voltage": "30 V"}
-    assert findings(brake=brake)["brake relay contacts"].severity is Severity.STOP
-    assert findings(SIX_CELL_LIPO, brake=brake)["brake relay contacts"].severity is Severity.PASS
-    unrated = findings(brake={"kind": "dynamic", "coil_current": "60 mA"})
-    assert unrated["brake relay contacts"].missing == ("brake.relay_contact_voltage",)
-    assert "brake relay contacts" not in findings(brake={"kind": "friction"})
+    assert findings(brakes=[brake])["brake relay contacts"].severity is Severity.STOP
+    assert findings(SIX_CELL_LIPO, brakes=[brake])["brake relay contacts"].severity is Severity.PASS
+    unrated = findings(brakes=[{"kind": "dynamic", "coil_current": "60 mA"}])
+    assert unrated["brake relay contacts"].missing == ("brakes[0].relay_contact_voltage",)
+    assert "brake relay contacts" not in findings(brakes=[{"kind": "friction"}])
 
 
 @pytest.mark.parametrize(

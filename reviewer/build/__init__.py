@@ -5,19 +5,22 @@ pint quantities in a fixed unit, wire gauges and IP codes into structured values
 are allowed: the rules that need them report ``unassessed`` and name the field. Unknown keys are
 errors (a misspelt key would otherwise silently drop a limit). One module per section:
 ``vehicle`` (vehicle, riders, use, housing), ``power`` (pack, motors, drivetrain, controller,
-brake), ``logic`` (the logic board), ``wiring`` (wires and fuses).
+brakes), ``logic`` (the logic board), ``wiring`` (wires and fuses).
 """
 
 from typing import Self
 
-from pydantic import Field, model_validator
+from pydantic import Field, field_validator, model_validator
+from pydantic.json_schema import SkipJsonSchema
 
 from reviewer.build.fields import MAX_ITEMS, MAX_RIDERS, Name, WireGauge, _Model
 from reviewer.build.logic import Logic, PinLoad, PortGroup, Regulator
 from reviewer.build.power import (
+    ONE_BRAKE_TABLE,
     Battery,
     Brake,
     BrakeKind,
+    BrakePosition,
     Chemistry,
     Controller,
     Cooling,
@@ -44,6 +47,7 @@ __all__ = [
     "Battery",
     "Brake",
     "BrakeKind",
+    "BrakePosition",
     "Build",
     "Chemistry",
     "Circuit",
@@ -84,7 +88,12 @@ class Build(_Model):
     motors: list[Motor] = Field(default_factory=list, max_length=8)
     drivetrain: Drivetrain | None = None
     controller: Controller | None = None
-    brake: Brake | None = None
+    brakes: list[Brake] | None = Field(
+        None,
+        max_length=MAX_ITEMS,
+        description="every brake, one [[brakes]] table each; brakes = [] declares none",
+    )
+    brake: SkipJsonSchema[dict[str, object] | None] = Field(None, exclude=True)
     logic: Logic | None = None
     wires: list[Wire] = Field(default_factory=list, max_length=MAX_ITEMS)
     fuses: list[Fuse] = Field(default_factory=list, max_length=MAX_ITEMS)
@@ -97,8 +106,35 @@ class Build(_Model):
         "each pack validates its own table (see reviewer.extensions)",
     )
 
+    def relay_brakes(self) -> list[tuple[int, Brake]]:
+        """Each dynamic brake the build says anything of its relay for, with its index."""
+        return [
+            (index, brake)
+            for index, brake in enumerate(self.brakes or ())
+            if brake.kind is BrakeKind.DYNAMIC
+            and any(
+                value is not None
+                for value in (
+                    brake.relay_contact_rating,
+                    brake.relay_contact_voltage,
+                    brake.coil_current,
+                )
+            )
+        ]
+
+    @field_validator("brake", mode="before")
+    @classmethod
+    def _one_brake_table(cls, value: object) -> object:
+        raise ValueError(ONE_BRAKE_TABLE)
+
     @model_validator(mode="after")
     def _cross_references(self) -> Self:
+        regenerative = [b for b in self.brakes or () if b.kind is BrakeKind.REGENERATIVE]
+        if regenerative and self.controller is not None and self.controller.regen is False:
+            raise ValueError("a regenerative brake is listed but controller.regen is false")
+        brake_names = [b.name for b in self.brakes or () if b.name is not None]
+        if len(set(brake_names)) != len(brake_names):
+            raise ValueError("brake names must be unique")
         names = [m.name for m in self.motors]
         if len(set(names)) != len(names):
             raise ValueError("motor names must be unique")

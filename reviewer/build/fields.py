@@ -51,6 +51,9 @@ ThermalResistance = Annotated[pint.Quantity, _q(u.THERMAL_RESISTANCE)]
 Grade = Annotated[pint.Quantity, _q(u.GRADE)]
 Fraction = Annotated[pint.Quantity, _q(u.FRACTION)]
 Inductance = Annotated[pint.Quantity, _q(u.INDUCTANCE)]
+Speed = Annotated[pint.Quantity, _q(u.SPEED)]
+Acceleration = Annotated[pint.Quantity, _q(u.ACCELERATION)]
+Force = Annotated[pint.Quantity, _q(u.FORCE)]
 
 
 class _Model(BaseModel):

@@ -232,6 +232,27 @@ class Drive:
         force = self._drive_force(lines, ratio)
         return top_speed(force, total_mass, self.rolling_resistance, self.drag_area, bound)
 
+    def descent_speed(self, total_mass: float, descent_percent: float) -> float:
+        """Steady speed in m/s down a ``descent_percent`` grade at full throttle, where the
+        drive's pull and gravity's meet the road load. Above its no-load speed a motor would
+        brake; that is left out (a full pack or a freewheeling controller gives none), so this
+        is the higher, pessimistic speed, never below the speed it coasts to with the drive off.
+        """
+        lines = self.lines()
+        bound = max(
+            ground_speed_for(line.no_load_speed, self.reduction, self.wheel_radius)
+            for line in lines
+        )
+        pull = self._drive_force(lines, self.reduction)
+        return top_speed(
+            lambda speed: max(pull(speed), 0.0),
+            total_mass,
+            self.rolling_resistance,
+            self.drag_area,
+            bound,
+            -descent_percent,
+        )
+
     def exceeds(
         self,
         total_mass: float,

@@ -32,15 +32,19 @@ def auxiliary_current(build: Build) -> AuxiliaryLoad:
             amps = in_unit(logic.board_current, "mA") / 1000
             current += amps
             parts.append(("logic board", amps))
-    brake = build.brake
-    if brake is not None and any(
-        value is not None
-        for value in (brake.relay_contact_rating, brake.relay_contact_voltage, brake.coil_current)
-    ):
+    for index, brake in build.relay_brakes():
         if brake.coil_current is None:
-            missing.append("brake.coil_current")
+            missing.append(f"brakes[{index}].coil_current")
         else:
             amps = in_unit(brake.coil_current, "mA") / 1000
             current += amps
-            parts.append(("brake relay coil", amps))
+            parts.append((_coil_name(build, index), amps))
     return AuxiliaryLoad(current, tuple(parts), tuple(missing))
+
+
+def _coil_name(build: Build, index: int) -> str:
+    """'brake relay coil', or with the brake's name where a build has several relays."""
+    if len(build.relay_brakes()) == 1:
+        return "brake relay coil"
+    brake = (build.brakes or [])[index]
+    return f"brake relay coil '{brake.name or f'brakes[{index}]'}'"

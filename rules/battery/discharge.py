@@ -161,7 +161,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       alone, since near full duty the pack carries the motor current (energy balance, brief
       11); a motor's stall current where lower. Plus ``logic.board_current`` (when its
       regulator is fed from the pack; counted at the pack as drawn, which errs high for a
-      switching regulator) and the brake relay's ``brake.coil_current``.
+      switching regulator) and the brake relay's ``brakes[].coil_current``.
       Capability: ``battery.cell_continuous_current``, or ``battery.cell_c_rate`` x
       ``battery.cell_capacity`` (the lower if both are given), times ``battery.cells_parallel``.
 
@@ -303,7 +303,7 @@ RULE = Rule(
         "controller.switch_on_resistance",
         "logic.board_current",
         "logic.regulator.fed_from_pack",
-        "brake.coil_current",
+        "brakes[].coil_current",
         "wires[].circuit",
         "fuses[].location",
         "fuses[].rating",

@@ -1,5 +1,5 @@
-"""brake.dynamic: a brake that shorts the motor, against its relay contacts and the deceleration
-it gives, and the friction brake it needs beside it.
+"""brake.dynamic: a brake that shorts the motor, against its relay contacts at the highest speed
+the build reaches and the deceleration it gives.
 
 A shorted permanent-magnet motor brakes with a current and a force in proportion to its speed:
 strong at top speed, where the relay closes onto its largest current, and nothing at all as the
@@ -10,21 +10,15 @@ usual hobby part, and such contacts are often far below the braking current).
 from __future__ import annotations
 
 from collections.abc import Iterator
+from dataclasses import dataclass
 
 from firstride_rules._shared.wording import drive_model
-from firstride_rules.brake._backup import (
-    FADES,
-    TO_STANDSTILL,
-    no_brake_finding,
-    standstill_finding,
-)
+from firstride_rules.brake._capability import brake_label
+from firstride_rules.brake._fade import GENERATOR, deceleration_findings
 from firstride_rules.brake._loops import (
     BrakingLoop,
     braking_loops,
     contact_remedy,
-    force_per_speed,
-    inductive_share,
-    share_remedy,
 )
 
 from reviewer import units as u
@@ -45,14 +39,10 @@ from reviewer.findings import (
     Source,
     SourceStatus,
 )
-from reviewer.profile import Limit, Profile
+from reviewer.profile import Profile
 from reviewer.rule import Output, Rule
 from reviewer.units import in_unit
 
-GENERATOR = Source.from_memory(
-    "Chapman, Electric Machinery Fundamentals: a shorted DC machine generates E = Ke w, "
-    "carries I = E / R_loop and brakes with T = Kt I"
-)
 # common practice: dynamic braking force falls to zero as the wheel stops; the usual hobby
 # brake relay has a coil near 60 mA and contacts rated 10 A, far below a shorted motor's current.
 CONTACTS = Source(
@@ -62,6 +52,11 @@ CONTACTS = Source(
 )
 ONLY_BRAKE = Source.common_practice(
     "A brake whose contacts are over-rated may weld or burn open; as the only brake that is a stop"
+)
+FADES = Source(
+    "Physics of dynamic braking: current and torque are proportional to speed and vanish as "
+    "the wheel stops, so a second, friction brake is needed to stop fully and to hold",
+    SourceStatus.DERIVED,
 )
 FLAT = Source(
     "Road load F = m g Crr + 0.5 rho CdA v^2 on the flat; rho 1.225 kg/m^3 (ISA), "
@@ -76,76 +71,73 @@ _MS2 = u.unit("m/s**2")
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
-    """A dynamic brake's contact current and deceleration at top speed, and what stops the
-    vehicle once its force has faded; and that the vehicle has a brake at all.
+    """Each dynamic brake's contact current at the highest speed the build reaches, and the
+    deceleration it gives each rider at their top speed.
 
     What it checks
-      ``brake.kind`` none declares a vehicle with no brake: nothing stops it or holds it on a
-      slope. ``brake.kind`` friction has nothing here to check. For ``brake.kind`` dynamic (the
-      motor shorted through a relay):
-      1. Braking current at the top speed of the lightest rider (the fastest; the drive model
-         of ``speed.rider-class``: pack, motors, gearing, road load on the flat). The motor
-         turns at w = v x reduction / wheel radius and drives I = Ke w / R_loop round a loop
-         of its winding (``motors[].winding_resistance``), the ``brake``-circuit wires and
-         ``brake.brake_resistance``, all at 20 degC (cold: the highest current; the relay's
+      Every ``brakes[]`` entry of kind dynamic (the motor shorted through a relay):
+      1. Braking current at the highest speed of the lightest rider (the fastest): the flat
+         top speed of the drive model of ``speed.rider-class`` (pack, motors, gearing, road
+         load), or the speed down ``usage.steepest_grade`` at full throttle where higher. The
+         motor turns at w = v x reduction / wheel radius and drives I = Ke w / R_loop round a
+         loop of its winding (``motors[].winding_resistance``), the ``brake``-circuit wires and
+         ``brakes[].brake_resistance``, all at 20 degC (cold: the highest current; the relay's
          own contact resistance and the motor leads are left out, which errs high). Compared
-         with the DC contact rating ``brake.relay_contact_rating``; the motor speed at which
+         with the DC contact rating ``brakes[].relay_contact_rating``; the motor speed at which
          the current equals the rating is n* = I_rating R_loop Kv. With several motors each
          is taken to have its own contacts of that rating.
-      2. Deceleration for each rider at their own top speed: a = sum(Kt I) x reduction /
-         (wheel radius x mass), i.e. F = Kt Ke reduction^2 v / (R_loop r^2) per motor.
-         Drivetrain friction, rolling resistance and drag only add to the braking and are left
-         out. Compared with the profile's ``brake.minimum_deceleration`` when the dynamic brake
-         is the only brake (``brake.friction_brake`` not true), else with
-         ``brake.single_brake_fraction`` of it (each brake alone). The speed below which the
-         deceleration falls under that figure is reported: the force is proportional to speed.
-      3. Low speed: the force vanishes as the wheel stops; ``brake.friction_brake`` must be
-         true. The same check applies to a regenerative brake.
+      2. Deceleration for each rider at their own flat top speed: a = sum(Kt I) x reduction
+         / (wheel radius x mass), i.e. F = Kt Ke reduction^2 v / (R_loop r^2) per motor, times
+         (R / |R + j w_e L|)^2 for a brushless winding's inductance. Drivetrain friction,
+         rolling resistance and drag only add to the braking and are left out. Compared with
+         the profile's ``brake.minimum_deceleration`` when no brake independent of the drive
+         electronics is listed, else with ``brake.single_brake_fraction`` of it (each brake
+         alone). The speed below which the deceleration falls under that figure is the speed
+         below which it stops braking usefully: the force is proportional to speed.
+      What stops the vehicle once the force has faded, and the whole stop, is
+      ``brake.stopping``'s.
 
     Severities
-      - stop: no brake at all (``brake.kind`` none); contacts over-rated on a vehicle whose
-        only brake this is (it may weld or burn open when needed).
-      - fix: contacts over-rated beside a friction brake; no friction brake beside a dynamic
-        or regenerative brake; the only brake below the minimum deceleration at top speed.
-      - advise: a dynamic brake beside a friction brake below its single-brake share.
-      - pass: within limits; a friction brake: nothing here applies, which the finding says.
-      - unassessed: no ``brake`` section (named as ``brake``); ``brake.friction_brake`` not
-        stated beside a dynamic or regenerative brake; riders,
-        ``brake.relay_contact_rating`` or drive-model inputs missing (each named).
+      - stop: contacts over-rated on a vehicle with no brake independent of the electronics
+        (it may weld or burn open when needed).
+      - fix: contacts over-rated beside a friction or foot brake; the only kind of brake
+        below the minimum deceleration at top speed.
+      - advise: a dynamic brake beside an independent brake below its single-brake share.
+      - pass: within limits; no dynamic brake listed: nothing here applies, which it says.
+      - unassessed: no ``brakes`` list; riders, ``brakes[].relay_contact_rating``, drive-model
+        inputs or (for contacts that hold at the flat top speed) ``usage.steepest_grade``
+        missing; a brushless winding's inductance missing where the resistive figure passes.
 
     Remedies give a brake resistor (rounded up to 0.01 ohm and re-checked, with the
     deceleration it leaves), contacts rated for the current, or engaging the relay only below
     the speed at which the current equals the rating; a friction brake with the deceleration
-    it must reach alone (for no brake at all, the profile's ``brake.minimum_deceleration``).
+    it must reach alone.
     """
-    brake = build.brake
-    if brake is None:
+    if build.brakes is None:
         yield Finding(
             Severity.UNASSESSED,
-            "brake",
-            "The build describes no brake, so neither what stops the vehicle nor whether it "
-            "shorts the motor is known.",
-            missing=("brake",),
+            "dynamic brake",
+            "The build lists no brakes, so whether one shorts the motor is not known.",
+            missing=("brakes",),
         )
         return
-    if brake.kind is BrakeKind.NONE:
-        yield no_brake_finding(brake, profile)
-        return
-    if brake.kind is BrakeKind.FRICTION:
+    dynamic = [(i, b) for i, b in enumerate(build.brakes) if b.kind is BrakeKind.DYNAMIC]
+    if not dynamic:
         yield Finding(
             Severity.PASS,
-            "brake",
-            "The build declares a friction brake (brake.kind friction). This rule checks "
-            "brakes that short the motor or regenerate, whose force fades at low speed; "
-            "nothing of that applies here.",
+            "dynamic brake",
+            "No brake in brakes shorts the motor (kind dynamic): nothing here applies. "
+            "brake.stopping judges the brakes the build has.",
         )
         return
-    yield standstill_finding(brake)
-    if brake.kind is BrakeKind.DYNAMIC:
-        yield from _dynamic(build, brake, profile)
+    for index, brake in dynamic:
+        tag = f", {brake_label(brake, index)}" if len(dynamic) > 1 else ""
+        yield from _dynamic(build, brake, index, tag, profile)
 
 
-def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
+def _dynamic(
+    build: Build, brake: Brake, index: int, tag: str, profile: Profile
+) -> Iterator[Output]:
     drive, notes, missing = drive_model(build, profile)
     lacking = list(missing)
     if not build.riders:
@@ -153,7 +145,7 @@ def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
     if drive is None or lacking:
         yield Finding(
             Severity.UNASSESSED,
-            "braking current and deceleration",
+            f"braking current and deceleration{tag}",
             "The braking current and deceleration need each rider's top speed, and so the "
             "riders, the vehicle's mass, the pack, each motor's Kv and winding resistance, "
             "the reduction and the wheel diameter.",
@@ -182,39 +174,69 @@ def _dynamic(build: Build, brake: Brake, profile: Profile) -> Iterator[Output]:
     speeds = [drive.top_speed(mass) for mass in masses]
     lightest = min(range(len(masses)), key=masses.__getitem__)
     speed, mass = speeds[lightest], masses[lightest]
-    omega = motor_speed_for(speed, drive.reduction, drive.wheel_radius)
+    grade = build.usage.steepest_grade
+    highest = speed
+    if grade is not None:
+        highest = max(speed, drive.descent_speed(mass, _in(grade, "percent")))
+    where = Where(
+        build.riders[lightest],
+        highest,
+        grade is not None and highest > speed,
+        grade is not None,
+        tag,
+    )
+    omega = motor_speed_for(highest, drive.reduction, drive.wheel_radius)
+    independent = any(not b.kind.electric for b in build.brakes or ())
     for loop in loops:
-        yield from _contacts(brake, drive, loops, loop, build.riders[lightest], speed, omega, mass)
+        yield from _contacts(brake, index, drive, loops, loop, where, omega, mass, independent)
     minimum = profile.limit("brake.minimum_deceleration")
     fraction = profile.limit("brake.single_brake_fraction")
     for rider, mass, speed in zip(build.riders, masses, speeds, strict=True):
-        yield from _deceleration(build, drive, loops, rider, mass, speed, (minimum, fraction))
+        yield from deceleration_findings(
+            build, drive, loops, rider, mass, speed, (minimum, fraction), (independent, tag)
+        )
+
+
+@dataclass(frozen=True)
+class Where:
+    """The speed the contacts are judged at: whose, how fast, whether downhill."""
+
+    rider: Rider
+    speed: float  # m/s
+    descent: bool  # the descent's speed is the higher
+    descent_known: bool  # the build gives its steepest grade
+    tag: str  # the brake's label where a build has several dynamic brakes
 
 
 def _contacts(
     brake: Brake,
+    index: int,
     drive: Drive,
     loops: list[BrakingLoop],
     loop: BrakingLoop,
-    rider: Rider,
-    speed: float,
+    where: Where,
     omega: float,
     mass: float,
+    independent: bool,
 ) -> Iterator[Output]:
     f = u.format_number
-    name = f"motor '{loop.motor.name}'"
+    rider, speed = where.rider, where.speed
+    name = f"motor '{loop.motor.name}'{where.tag}"
     current = braking_current(loop.kv, omega, loop.resistance)
     emf = back_emf_constant(loop.kv) * omega
     yield DerivedFigure(
         f"braking current at top speed, {name}",
         u.quantity(current, _A),
-        note=f"dynamic brake closed at {f(ms_to_kmh(speed))} km/h (rider '{rider.name}'), "
+        note=f"dynamic brake closed at {f(ms_to_kmh(speed))} km/h (rider '{rider.name}'"
+        f"{', downhill' if where.descent else ''}), "
         f"{f(loop.resistance)} ohm loop at 20 °C",
         order=60,
     )
     subject = f"brake relay contacts, {name}"
+    reached = "on the steepest descent" if where.descent else "on the flat"
     situation = (
-        f"At {f(ms_to_kmh(speed))} km/h, the top speed of the lightest rider '{rider.name}', "
+        f"At {f(ms_to_kmh(speed))} km/h, the highest speed of the lightest rider "
+        f"'{rider.name}' ({reached}), "
         f"the motor turns at {rad_s_to_rpm(omega):.0f} rpm and its {f(emf)} V back-EMF, "
         f"shorted, drives {f(current)} A round a {f(loop.resistance)} ohm loop (winding and "
         f"brake wiring at 20 °C{', brake resistor' if loop.added else ''})."
@@ -224,7 +246,7 @@ def _contacts(
             Severity.UNASSESSED,
             subject,
             f"{situation} The relay's DC contact rating is not given.",
-            missing=("brake.relay_contact_rating",),
+            missing=(f"brakes[{index}].relay_contact_rating",),
             sources=(GENERATOR,),
         )
         return
@@ -240,7 +262,7 @@ def _contacts(
     over = current > rating
     severity = Severity.PASS
     if over:
-        severity = Severity.STOP if brake.friction_brake is False else Severity.FIX
+        severity = Severity.FIX if independent else Severity.STOP
     rationale = (
         f"{situation} The contacts are rated {f(rating)} A DC; the current equals that at "
         f"{at_rating:.0f} rpm, {f(ms_to_kmh(ground))} km/h."
@@ -252,6 +274,13 @@ def _contacts(
         )
     if severity is Severity.STOP:
         rationale += " As the only brake, it may weld shut or burn open when it is needed."
+    missing: tuple[str, ...] = ()
+    if not over and not where.descent_known:
+        severity, missing = Severity.UNASSESSED, ("usage.steepest_grade",)
+        rationale += (
+            " The steepest descent is not given: downhill the vehicle runs faster and the "
+            "current is higher."
+        )
     remedy = None
     if over:
         remedy = contact_remedy(drive, loops, loop, emf, rating, current, ground, speed, mass)
@@ -266,105 +295,8 @@ def _contacts(
         limit=u.quantity(rating, _A),
         comparison=Comparison.AT_MOST,
         remedy=remedy,
-        sources=tuple(sources),
-    )
-
-
-def _deceleration(
-    build: Build,
-    drive: Drive,
-    loops: list[BrakingLoop],
-    rider: Rider,
-    mass: float,
-    speed: float,
-    limits: tuple[Limit, Limit],
-) -> Iterator[Output]:
-    """One rider's deceleration at their own top speed (``mass`` with the vehicle, kg)."""
-    minimum, fraction = limits
-    brake = build.brake
-    assert brake is not None
-    f = u.format_number
-    coefficient = force_per_speed(drive, loops)
-    shares = [inductive_share(loop, drive, speed) for loop in loops]
-    unknown = [loop.motor.name for loop, share in zip(loops, shares, strict=True) if share is None]
-    # With the inductance unknown, the resistive figure is an upper bound on a brushless
-    # motor's braking: it settles only a shortfall, never a pass.
-    decel = (
-        sum(
-            force_per_speed(drive, [loop]) * (1.0 if share is None else share)
-            for loop, share in zip(loops, shares, strict=True)
-        )
-        * speed
-        / mass
-    )
-    full = _in(minimum.quantity, _MS2)
-    beside_friction = brake.friction_brake is True
-    share = float(fraction.value) if beside_friction else 1.0  # type: ignore[arg-type]
-    needed = full * share
-    fade = needed * mass / coefficient  # speed below which it gives less than `needed`
-    subject = f"dynamic braking, rider '{rider.name}'"
-    yield DerivedFigure(
-        f"dynamic-brake deceleration at top speed, rider '{rider.name}'",
-        u.quantity(decel, _MS2),
-        note=f"from {f(ms_to_kmh(speed))} km/h, {f(mass)} kg with the vehicle",
-        order=62,
-    )
-    role = (
-        f"beside the friction brake it must reach {f(share * 100)} % of "
-        f"{f(full)} m/s² on its own, {f(needed)} m/s²"
-        if beside_friction
-        else f"as the only brake it must reach {f(needed)} m/s²"
-    )
-    short = decel < needed
-    fading = (
-        f"it would reach {f(needed)} m/s² only from {f(ms_to_kmh(fade))} km/h, above that speed"
-        if short
-        else f"below {f(ms_to_kmh(fade))} km/h it gives under {f(needed)} m/s²"
-    )
-    rationale = (
-        f"Closed at {f(ms_to_kmh(speed))} km/h, the top speed of rider '{rider.name}' "
-        f"({f(mass)} kg with the vehicle), the dynamic brake decelerates at {f(decel)} m/s², "
-        f"and less as the speed falls: {fading}. {role[0].upper()}{role[1:]}."
-    )
-    severity = Severity.PASS
-    if short:
-        severity = Severity.ADVISE if beside_friction else Severity.FIX
-    missing: tuple[str, ...] = ()
-    if unknown:
-        names = ", ".join(f"'{name}'" for name in unknown)
-        rationale += (
-            f" The winding inductance of brushless motor {names} is not given: above "
-            "w_e = R / L a shorted winding's current stops rising with speed, so this figure, "
-            "which leaves it out, is an upper bound."
-        )
-        if not short:
-            severity = Severity.UNASSESSED
-            missing = tuple(
-                f"motors[{i}].{field}"
-                for i, motor in enumerate(build.motors)
-                for field in ("winding_inductance", "pole_pairs")
-                if motor.name in unknown and getattr(motor, field) is None
-            )
-    remedy = None
-    if short:
-        remedy = (
-            f"fit a friction brake that reaches at least {f(full)} m/s² with this brake, and "
-            f"at least {f(full * float(fraction.value))} m/s² on its own"  # type: ignore[arg-type]
-            if not beside_friction
-            else share_remedy(drive, loops, speed, mass, needed, full)
-        )
-    yield Finding(
-        severity,
-        subject,
-        rationale,
-        measured=u.quantity(decel, _MS2),
-        limit=u.quantity(needed, _MS2),
-        comparison=Comparison.AT_LEAST,
-        remedy=remedy,
         missing=missing,
-        sources=(GENERATOR, minimum.source, fraction.source)
-        if beside_friction
-        else (GENERATOR, minimum.source),
+        sources=tuple(sources),
     )
 
 
@@ -372,9 +304,10 @@ RULE = Rule(
     id="brake.dynamic",
     title="Dynamic brake current, deceleration and backup",
     check=check,
-    sources=(GENERATOR, FADES, TO_STANDSTILL, CONTACTS),
+    sources=(GENERATOR, FADES, CONTACTS),
     inputs=(
-        "brake",
+        "brakes",
+        "usage.steepest_grade",
         "riders",
         "vehicle.mass",
         "battery",

@@ -51,9 +51,9 @@ def load_current(build: Build, logic: Logic) -> tuple[float, list[Assumption]]:
                 "(the worst case for the regulator)."
             )
         )
-    coil = build.brake.coil_current if build.brake is not None else None
-    if coil is not None:
-        amps = _in(coil, _MA) / 1000.0
+    coils = [b.coil_current for _, b in build.relay_brakes() if b.coil_current is not None]
+    if coils:
+        amps = sum(_in(coil, _MA) for coil in coils) / 1000.0
         twin = next(
             (
                 load

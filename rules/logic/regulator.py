@@ -91,7 +91,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
          the severity and the words.
       2. Heat (linear only): the load is ``logic.board_current`` (microcontroller, sensors,
          radio) plus every ``logic.loads[].current`` (all taken on the regulated rail at once)
-         plus the brake relay's coil (``brake.coil_current``) unless a logic load that is
+         plus the brake relay's coil (``brakes[].coil_current``) unless a logic load that is
          inductive and draws the same current is listed (that load is taken to be the coil,
          counted once). P = (Vin - Vout) I_out + Vin I_q, with Vout
          ``logic.regulator.output_voltage`` (else ``logic.supply_voltage``) and I_q
@@ -342,7 +342,7 @@ RULE = Rule(
         "logic.board_current",
         "logic.loads",
         "logic.supply_voltage",
-        "brake.coil_current",
+        "brakes[].coil_current",
         "battery",
         "usage.ambient_temperature",
     ),

@@ -167,7 +167,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
          where it is lower or alone, as the pack carries the motor current near full duty
          (energy balance, brief 11); else the ``motors[i].rated_current`` (a stall is a
          fault, not service), plus
-         ``logic.board_current`` (pack-fed) and ``brake.coil_current``. Iz is the least, over
+         ``logic.board_current`` (pack-fed) and ``brakes[].coil_current``. Iz is the least, over
          the wires the fuse protects, of the wire's ampacity (as wiring.stall-current rates it:
          datasheet ``rated_ampacity`` or NEC Table 310.16 / FAA AC 43.13-1B Table 11-9, with
          ambient and bundling corrections) and the NEC 240.4(D) ceiling for 18-10 AWG (7, 10,
@@ -270,7 +270,7 @@ RULE = Rule(
         "controller.motor_current_basis",
         "controller.drive",
         "logic.board_current",
-        "brake.coil_current",
+        "brakes[].coil_current",
         "wires[].circuit",
         "wires[].gauge",
         "wires[].cross_section",

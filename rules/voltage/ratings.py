@@ -184,20 +184,20 @@ def _parts(build: Build, full: float, profile: Profile) -> Iterator[_Part | Assu
         rating = ratings.fuse_voltage_rating(build, index)
         assert rating is not None  # the pack is known
         yield _Part(f"fuse '{fuse.name}'", rating, (CELL_LIMITS, FUSE_VOLTAGE))
-    brake = build.brake
-    if brake is not None and any(
-        value is not None
-        for value in (brake.relay_contact_rating, brake.relay_contact_voltage, brake.coil_current)
-    ):
+    relays = build.relay_brakes()
+    for index, brake in relays:
         contacts = VoltageRating(
-            "brake.relay_contact_voltage",
+            f"brakes[{index}].relay_contact_voltage",
             _maybe(brake.relay_contact_voltage),
             full,
             full,
             f"the {_n(full)} V full pack, DC",
             f"use a relay whose contacts are rated at least {whole_volts_up(full)} DC",
         )
-        yield _Part("brake relay contacts", contacts, (CELL_LIMITS, RELAY_ARC))
+        name = "brake relay contacts"
+        if len(relays) > 1:
+            name += f" '{brake.name or f'brakes[{index}]'}'"
+        yield _Part(name, contacts, (CELL_LIMITS, RELAY_ARC))
 
 
 def _motor_findings(
@@ -268,7 +268,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       - every fuse (``fuses[i].voltage_rating``, DC): at least full; a fuse interrupts only at
         or below its rated voltage (ISO 8820-3 blade fuses come in 32 V and 58 V: a 32 V fuse
         is invalid on a 10-cell Li-ion pack at 42 V);
-      - brake relay contacts (``brake.relay_contact_voltage``, DC, when the brake has a relay):
+      - brake relay contacts (``brakes[].relay_contact_voltage``, DC, when the brake has a relay):
         at least full;
       - every motor (``motors[i].rated_voltage``): its speed scales with voltage, so full over
         rated is its overspeed ratio, within ``voltage.motor_overvoltage.advise`` (1.25).
@@ -342,7 +342,7 @@ RULE = Rule(
         "logic.regulator.fed_from_pack",
         "battery.charger_voltage",
         "fuses[].voltage_rating",
-        "brake.relay_contact_voltage",
+        "brakes[].relay_contact_voltage",
         "motors[].rated_voltage",
     ),
     severities=(
