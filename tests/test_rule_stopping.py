@@ -244,6 +244,11 @@ def test_regen_current_against_the_cells_and_the_voltage_it_lifts() -> None:
     assert "at most 4 A" in (cells.remedy or "")
     over = by_subject(REGEN, variant(data, controller__max_input_voltage="43 V"))
     assert over["pack voltage while regenerating"].severity is Severity.STOP
+    # the lowest DC rating on the terminals sets the limit, a fuse's as much as the controller's
+    fuse = {"name": "main", "location": "battery-positive", "rating": "20 A"}
+    fused = by_subject(REGEN, variant(data, fuses=[{**fuse, "voltage_rating": "43 V"}]))
+    assert fused["pack voltage while regenerating"].severity is Severity.STOP
+    assert "fuse 'main'" in fused["pack voltage while regenerating"].rationale
 
 
 def test_unstated_regeneration_is_unassessed() -> None:

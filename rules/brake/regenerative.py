@@ -50,12 +50,13 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       2. Cells: the current per string (``battery.cells_parallel``) against
          ``battery.cell_max_charge_current``.
       3. Voltage: the full pack plus the regenerative current through its internal resistance
-         (``battery.cell_internal_resistance``), V_full + I R_pack, against
-         ``controller.max_input_voltage``.
+         (``battery.cell_internal_resistance``), V_full + I R_pack, against the lowest DC
+         rating on the pack's terminals: ``controller.max_input_voltage``,
+         ``fuses[].voltage_rating``, ``brakes[].relay_contact_voltage``.
 
     Severities
       - stop: regenerative braking is the only brake and vanishes on a full pack; it lifts
-        the pack above the controller's rating.
+        the pack above a part's voltage rating.
       - fix: more charge current per string than the cells are rated for.
       - pass: within limits; no regeneration (``controller.regen`` false and no such brake);
         the full-pack loss beside another brake (stated: ``brake.stopping`` judges the stop
@@ -229,10 +230,13 @@ def _voltage(build: Build, battery: Battery, current: float) -> Iterator[Output]
         return
     lifted = full + current * resistance
     assert lifted >= full, "a charging current never lowers the terminal voltage"
-    over = lifted > rating
+    parts = [("the controller", rating), *_other_parts(build)]
+    name, lowest = min(parts, key=lambda part: part[1])
+    over = lifted > lowest
     text = (
         f"Regenerating {f(current)} A into the {f(full)} V full pack through its {f(resistance)} "
-        f"ohm lifts the terminals to {f(lifted)} V against the controller's {f(rating)} V."
+        f"ohm lifts the terminals to {f(lifted)} V; the lowest rating on the pack's terminals "
+        f"is {name}'s, {f(lowest)} V."
     )
     if battery.bms:
         text += (
@@ -244,14 +248,29 @@ def _voltage(build: Build, battery: Battery, current: float) -> Iterator[Output]
         subject,
         text,
         measured=u.quantity(lifted, _V),
-        limit=u.quantity(rating, _V),
+        limit=u.quantity(lowest, _V),
         comparison=Comparison.AT_MOST,
-        remedy=f"lower controller.regen_current_limit below {f((rating - full) / resistance)} A "
-        "or use a controller rated above it"
+        remedy=f"lower controller.regen_current_limit below {f((lowest - full) / resistance)} A "
+        f"or use a part rated above {f(lifted)} V in place of {name}"
         if over
         else None,
         sources=(OHM_LAW, PART_RATING),
     )
+
+
+def _other_parts(build: Build) -> list[tuple[str, float]]:
+    """The pack's other parts with a DC voltage rating the build gives: fuses and relays."""
+    parts = [
+        (f"fuse '{fuse.name}'", in_unit(fuse.voltage_rating, "V"))
+        for fuse in build.fuses
+        if fuse.voltage_rating is not None
+    ]
+    parts += [
+        (f"the relay of brakes[{index}]", in_unit(brake.relay_contact_voltage, "V"))
+        for index, brake in build.relay_brakes()
+        if brake.relay_contact_voltage is not None
+    ]
+    return parts
 
 
 RULE = Rule(
@@ -266,6 +285,8 @@ RULE = Rule(
         "controller.max_input_voltage",
         "battery",
         "battery.cell_max_charge_current",
+        "fuses[].voltage_rating",
+        "brakes[].relay_contact_voltage",
     ),
     severities=(Severity.STOP, Severity.FIX, Severity.PASS, Severity.UNASSESSED),
 )
