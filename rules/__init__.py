@@ -42,6 +42,12 @@ RULE_IDS = (
     "brake.stopping",
     "brake.regenerative",
     "speed.descent",
+    # what else hurts riders
+    "control.fail-safe",
+    "battery.bms",
+    "power.connectors",
+    "charging.ratings",
+    "mechanical.wheels",
 )
 
 

@@ -72,7 +72,8 @@ def test_sections_present() -> None:
         assert heading in text
     assert "Local regulations prevail" in text
     assert "Build fingerprint (SHA-256)" in text
-    assert not re.search(r"\bsafe\b", text, re.IGNORECASE)  # never claim "safe"
+    # never claim "safe"; "fail-safe" (control.fail-safe) names a trade term, not a verdict
+    assert not re.search(r"(?<!fail-)\bsafe\b", text, re.IGNORECASE)
 
 
 def test_hostile_build_text_cannot_break_tables_or_inject_html() -> None:

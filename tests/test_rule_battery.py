@@ -13,6 +13,7 @@ import re
 import pytest
 from firstride_rules.battery.discharge import RULE as DISCHARGE_RULE
 from firstride_rules.battery.protection import RULE as PROTECTION_RULE
+from firstride_rules.charging.ratings import RULE as CHARGING_RULE
 
 from reviewer.engineering.cells import (
     CELL_VOLTAGES,
@@ -27,8 +28,11 @@ from reviewer.testing import rule_outputs, run_rule_on
 
 
 def battery(chemistry="li-ion", series=7, parallel=1, **extra):
+    """A pack; ``bms=True`` or ``False`` says whether a BMS guarding discharge is fitted."""
     data = {"chemistry": chemistry, "cells_series": series, "cells_parallel": parallel}
     data.update(extra)
+    if isinstance(data.get("bms"), bool):
+        data["bms"] = {"guards_discharge": True} if data["bms"] else {"fitted": False}
     return data
 
 
@@ -320,7 +324,8 @@ def test_cutoff_counts_a_bms_and_is_unassessed_without_either():
     ],
 )
 def test_charger_voltage(pack, charger, severity):
-    finding = protection({**pack, "bms": True, "charger_voltage": charger})["charger voltage"]
+    charged = battery(pack["chemistry"], pack["cells_series"], bms=True, charger_voltage=charger)
+    finding = charging(charged)["charger voltage"]
     assert finding.severity is severity
     if severity is not Severity.PASS:
         cells = pack["cells_series"]
@@ -328,8 +333,12 @@ def test_charger_voltage(pack, charger, severity):
         assert finding.remedy.startswith(f"use a {full:.3g} V charger ({cells} x ")
 
 
+def charging(pack):
+    return {f.subject: f for f in run_rule_on(CHARGING_RULE, {"battery": pack})}
+
+
 def test_charger_not_given_is_unassessed():
-    finding = protection(battery(bms=True))["charger voltage"]
+    finding = charging(battery(bms=True))["charger voltage"]
     assert finding.severity is Severity.UNASSESSED
     assert finding.missing == ("battery.charger_voltage",)
 

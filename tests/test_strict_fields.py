@@ -43,4 +43,4 @@ def test_values_of_the_wrong_type_are_refused(data) -> None:
 
 def test_a_whole_number_is_still_a_number_where_a_ratio_is_asked() -> None:
     assert make_build({"drivetrain": {"ratio": 4}}).drivetrain.ratio == 4.0
-    assert make_build({"battery": {**PACK, "bms": True}}).battery.bms is True
+    assert make_build({"battery": {**PACK, "bms": {"fitted": True}}}).battery.bms.fitted is True

@@ -4,8 +4,9 @@ Every quantity and code is parsed here, once (:mod:`reviewer.build.fields`): qua
 pint quantities in a fixed unit, wire gauges and IP codes into structured values. Absent fields
 are allowed: the rules that need them report ``unassessed`` and name the field. Unknown keys are
 errors (a misspelt key would otherwise silently drop a limit). One module per section:
-``vehicle`` (vehicle, riders, use, housing), ``power`` (pack, motors, drivetrain, controller,
-brakes), ``logic`` (the logic board), ``wiring`` (wires and fuses).
+``vehicle`` (vehicle, riders, use, housing), ``power`` (pack, motors, drivetrain, controller),
+``brakes``, ``logic`` (the logic board), ``wiring`` (wires and fuses), ``power_path`` (BMS,
+connectors, charger), ``control`` (throttle and kill switch), ``wheels``.
 """
 
 from typing import Self
@@ -13,14 +14,12 @@ from typing import Self
 from pydantic import Field, field_validator, model_validator
 from pydantic.json_schema import SkipJsonSchema
 
+from reviewer.build.brakes import ONE_BRAKE_TABLE, Brake, BrakeKind, BrakePosition
+from reviewer.build.control import Control, ThrottleKind
 from reviewer.build.fields import MAX_ITEMS, MAX_RIDERS, Name, WireGauge, _Model
 from reviewer.build.logic import Logic, PinLoad, PortGroup, Regulator
 from reviewer.build.power import (
-    ONE_BRAKE_TABLE,
     Battery,
-    Brake,
-    BrakeKind,
-    BrakePosition,
     Chemistry,
     Controller,
     Cooling,
@@ -32,6 +31,7 @@ from reviewer.build.power import (
     Motor,
     MotorType,
 )
+from reviewer.build.power_path import Bms, Charger, Connector, ConnectorCircuit, ConnectorKind
 from reviewer.build.vehicle import (
     Conditions,
     Enclosure,
@@ -41,17 +41,24 @@ from reviewer.build.vehicle import (
     Vehicle,
     VehicleKind,
 )
+from reviewer.build.wheels import Wheel, WheelPosition
 from reviewer.build.wiring import Circuit, Fuse, Insulation, Wire
 
 __all__ = [
     "Battery",
+    "Bms",
     "Brake",
     "BrakeKind",
     "BrakePosition",
     "Build",
+    "Charger",
     "Chemistry",
     "Circuit",
     "Conditions",
+    "Connector",
+    "ConnectorCircuit",
+    "ConnectorKind",
+    "Control",
     "Controller",
     "Cooling",
     "CurrentBasis",
@@ -70,9 +77,12 @@ __all__ = [
     "Regulator",
     "Rider",
     "RiderClass",
+    "ThrottleKind",
     "Usage",
     "Vehicle",
     "VehicleKind",
+    "Wheel",
+    "WheelPosition",
     "Wire",
     "WireGauge",
     "build_json_schema",
@@ -95,6 +105,18 @@ class Build(_Model):
     )
     brake: SkipJsonSchema[dict[str, object] | None] = Field(None, exclude=True)
     logic: Logic | None = None
+    control: Control | None = Field(
+        None, description="the throttle and what stops the drive when its command goes wrong"
+    )
+    connectors: list[Connector] | None = Field(
+        None,
+        max_length=MAX_ITEMS,
+        description="every connector and switch in the power path; connectors = [] for none",
+    )
+    charger: Charger | None = None
+    wheels: list[Wheel] | None = Field(
+        None, max_length=MAX_ITEMS, description="each wheel or tyre kind, by axle"
+    )
     wires: list[Wire] = Field(default_factory=list, max_length=MAX_ITEMS)
     fuses: list[Fuse] = Field(default_factory=list, max_length=MAX_ITEMS)
     enclosure: Enclosure | None = None
@@ -152,6 +174,11 @@ class Build(_Model):
                 raise ValueError(
                     f"wire {wire.name!r} is on the {wire.circuit.value} circuit of a build with "
                     "several motors: name its motor"
+                )
+        for connector in self.connectors or ():
+            if connector.motor is not None and connector.motor not in names:
+                raise ValueError(
+                    f"connector {connector.name!r} names motor {connector.motor!r}, not in motors"
                 )
         for fuse in self.fuses:
             for name in fuse.protects:

@@ -21,6 +21,9 @@ class Vehicle(_Model):
     kind: VehicleKind
     revision: Name = "1"
     mass: Mass | None = Field(None, description="the vehicle without its rider")
+    rated_load: Mass | None = Field(
+        None, description="the deck's or frame's rated load (rider and cargo)", examples=["100 kg"]
+    )
     builder: Name | None = None
 
 

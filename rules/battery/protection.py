@@ -1,5 +1,6 @@
 """battery.protection: what keeps a lithium pack from being charged or drained past its
-cells' limits: a management system, a low-voltage cut-off and a charger of the right voltage.
+cells' limits: a management system and a low-voltage cut-off (the charger is
+``charging.ratings``'s).
 """
 
 from __future__ import annotations
@@ -35,7 +36,7 @@ def _chemistry(battery: Battery) -> str:
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
-    """A lithium pack's management system, low-voltage cut-off and charger voltage.
+    """A lithium pack's management system and low-voltage cut-off.
 
     What it checks (lithium chemistries: li-ion, lipo, lifepo4)
       1. Battery management system (``battery.bms``): a series pack's voltage hides one cell
@@ -43,25 +44,21 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       2. Low-voltage cut-off: a BMS counts as one; otherwise ``battery.low_voltage_cutoff`` must
          be at or above the chemistry's cut-off x ``battery.cells_series`` (Li-ion and LiPo
          3.0 V, LiFePO4 2.5 V per cell; from memory: Linden, Handbook of Batteries).
-      3. Charger voltage (``battery.charger_voltage``) against the full pack voltage (4.2 V per
-         cell for Li-ion and LiPo, 3.65 V for LiFePO4), within the profile's
-         ``battery.charger_tolerance_per_cell`` x cells in series.
+      The charger's voltage is ``charging.ratings``'s.
       Other chemistries are charged and cut off on other principles (constant-current
       termination, float voltages): the rule says so and passes.
 
     Severities
-      - stop: ``bms`` false; a cut-off set below the cells' damage floor (Li-ion and LiPo 2.5 V,
-        LiFePO4 2.0 V per cell); a charger above full voltage plus the tolerance (overcharge).
+      - stop: no BMS (``bms.fitted`` false); a cut-off set below the cells' damage floor
+        (Li-ion and LiPo 2.5 V, LiFePO4 2.0 V per cell).
       - fix: a cut-off between the floor and the chemistry's cut-off.
-      - advise: a charger below full voltage minus the tolerance (an undercharged pack); with a
-        BMS, a controller cut-off set below the cells' cut-off (the BMS then cuts power
-        abruptly before the controller's cut-off acts).
+      - advise: with a BMS, a controller cut-off set below the cells' cut-off (the BMS then
+        cuts power abruptly before the controller's cut-off acts).
       - pass: within each limit; or not a lithium pack.
       - unassessed: no ``battery``; ``battery.bms`` not stated; no BMS and no
-        ``battery.low_voltage_cutoff``; no ``battery.charger_voltage``.
+        ``battery.low_voltage_cutoff``.
 
-    Remedies give voltages: "set the cut-off at or above 21 V (7 x 3.0 V)", "use a 29.4 V
-    charger (7 x 4.2 V)".
+    Remedies give voltages: "set the cut-off at or above 21 V (7 x 3.0 V)".
     """
     battery = build.battery
     if battery is None:
@@ -78,7 +75,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             Severity.PASS,
             "lithium pack protection",
             f"The pack is {_chemistry(battery)}, not lithium: the management-system, "
-            "cut-off and charger-voltage checks here are for lithium cells only, and nothing "
+            "cut-off checks here are for lithium cells only, and nothing "
             "more applies.",
             sources=(CELL_LIMITS,),
         )
@@ -93,7 +90,6 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
     )
     yield _bms_finding(battery)
     yield _cutoff_finding(battery, cell)
-    yield _charger_finding(battery, cell, profile)
 
 
 def _bms_finding(battery: Battery) -> Finding:
@@ -107,7 +103,7 @@ def _bms_finding(battery: Battery) -> Finding:
             missing=("battery.bms",),
             sources=(CELL_PROTECTION,),
         )
-    if battery.bms:
+    if battery.bms.fitted:
         return Finding(
             Severity.PASS,
             subject,
@@ -126,6 +122,10 @@ def _bms_finding(battery: Battery) -> Finding:
     )
 
 
+def _has_bms(battery: Battery) -> bool:
+    return battery.bms is not None and battery.bms.fitted
+
+
 def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
     subject = "low-voltage cut-off"
     series = battery.cells_series
@@ -134,7 +134,7 @@ def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
     remedy = f"set the cut-off at or above {_n(required)} V ({series} x {_n(cell.cutoff)} V)"
     setting = battery.low_voltage_cutoff
     if setting is None:
-        if battery.bms:
+        if _has_bms(battery):
             return Finding(
                 Severity.PASS,
                 subject,
@@ -160,7 +160,7 @@ def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
     measured, limit = quantity(volts, "V"), quantity(required, "V")
     if volts >= required - _EPSILON:
         severity = Severity.PASS
-    elif battery.bms:
+    elif _has_bms(battery):
         severity = Severity.ADVISE
         text += " The BMS will cut power abruptly before this cut-off acts."
     elif volts < floor - _EPSILON:
@@ -180,50 +180,9 @@ def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
     )
 
 
-def _charger_finding(battery: Battery, cell: CellVoltages, profile: Profile) -> Finding:
-    subject = "charger voltage"
-    series = battery.cells_series
-    full = cell.full * series
-    if battery.charger_voltage is None:
-        return Finding(
-            Severity.UNASSESSED,
-            subject,
-            f"The charger's voltage is not given, so it cannot be checked against the pack's "
-            f"{_n(full)} V full charge.",
-            missing=("battery.charger_voltage",),
-            sources=(CELL_LIMITS,),
-        )
-    tolerance = profile.limit("battery.charger_tolerance_per_cell")
-    band = in_unit(tolerance.quantity, "V") * series
-    volts = in_unit(battery.charger_voltage, "V")
-    text = (
-        f"The charger ends at {_n(volts)} V, {_n(volts / series)} V per cell; a full "
-        f"{_chemistry(battery)} cell is {_n(cell.full)} V ({_n(full)} V for {series} in "
-        f"series, within {_n(band)} V)."
-    )
-    severity, bound, comparison = Severity.PASS, full + band, Comparison.AT_MOST
-    if volts > full + band + _EPSILON:
-        severity = Severity.STOP
-        text += " It overcharges every cell, which can set a lithium cell on fire."
-    elif volts < full - band - _EPSILON:
-        severity, bound, comparison = Severity.ADVISE, full - band, Comparison.AT_LEAST
-        text += " The pack never charges fully, which costs range but is not a hazard."
-    remedy = f"use a {_n(full)} V charger ({series} x {_n(cell.full)} V)"
-    return Finding(
-        severity,
-        subject,
-        text,
-        quantity(volts, "V"),
-        quantity(bound, "V"),
-        comparison,
-        None if severity is Severity.PASS else remedy,
-        (CELL_LIMITS, tolerance.source),
-    )
-
-
 RULE = Rule(
     id="battery.protection",
-    title="Lithium pack management system, cut-off and charger voltage",
+    title="Lithium pack management system and cut-off",
     check=check,
     sources=(CELL_LIMITS, CELL_PROTECTION),
     inputs=(
@@ -231,7 +190,6 @@ RULE = Rule(
         "battery.cells_series",
         "battery.bms",
         "battery.low_voltage_cutoff",
-        "battery.charger_voltage",
     ),
     severities=(
         Severity.STOP,

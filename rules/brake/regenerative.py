@@ -238,7 +238,7 @@ def _voltage(build: Build, battery: Battery, current: float) -> Iterator[Output]
         f"ohm lifts the terminals to {f(lifted)} V; the lowest rating on the pack's terminals "
         f"is {name}'s, {f(lowest)} V."
     )
-    if battery.bms:
+    if battery.bms is not None and battery.bms.fitted:
         text += (
             " Should the BMS open while regenerating, nothing holds the controller's supply "
             "down: that case is not computed here."

@@ -1,0 +1,1 @@
+"""Charging rules: the charger and charge port against the pack and its BMS."""

@@ -1,0 +1,1 @@
+"""Mechanical rules: what carries the rider."""
