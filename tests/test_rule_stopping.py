@@ -278,6 +278,17 @@ def test_coasting_speed_and_back_emf_downhill() -> None:
     assert low["back-EMF on the steepest descent, motor 'rear'"].severity is Severity.FIX
 
 
+def test_downhill_the_heaviest_rider_sets_the_back_emf() -> None:
+    # gravity's pull grows with mass and drag does not (brief 14): the heavier rider coasts
+    # faster, so the back-EMF is worked at the heaviest rider's speed
+    data = scooter(usage__steepest_grade="10 %")
+    data["riders"].append({"name": "Kim", "mass": "40 kg", "class": "youth"})
+    theta = math.atan(0.10)
+    coast = math.sqrt(100 * G * (math.sin(theta) - 0.01 * math.cos(theta)) / (0.5 * RHO))
+    emf = by_subject(DESCENT, data)["back-EMF on the steepest descent, motor 'rear'"]
+    assert emf.measured.m_as("V") == pytest.approx(KT * coast * 5 / 0.1, rel=1e-4)
+
+
 def test_no_descent_given_is_unassessed() -> None:
     findings = run_rule_on(DESCENT, scooter(usage__steepest_grade=None))
     assert [f.missing for f in findings] == [("usage.steepest_grade",)]

@@ -76,7 +76,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
 
     What it checks
       Every ``brakes[]`` entry of kind dynamic (the motor shorted through a relay):
-      1. Braking current at the highest speed of the lightest rider (the fastest): the flat
+      1. Braking current at the highest speed any rider reaches (the lightest on the flat,
+         the heaviest downhill): the flat
          top speed of the drive model of ``speed.rider-class`` (pack, motors, gearing, road
          load), or the speed down ``usage.steepest_grade`` at full throttle where higher. The
          motor turns at w = v x reduction / wheel radius and drives I = Ke w / R_loop round a
@@ -172,16 +173,19 @@ def _dynamic(
     vehicle = _in(build.vehicle.mass, _KG)
     masses = [vehicle + _in(rider.mass, _KG) for rider in build.riders]
     speeds = [drive.top_speed(mass) for mass in masses]
-    lightest = min(range(len(masses)), key=masses.__getitem__)
-    speed, mass = speeds[lightest], masses[lightest]
     grade = build.usage.steepest_grade
-    highest = speed
-    if grade is not None:
-        highest = max(speed, drive.descent_speed(mass, _in(grade, "percent")))
+    downhill = [
+        drive.descent_speed(mass, _in(grade, "percent")) if grade is not None else 0.0
+        for mass in masses
+    ]
+    # The lightest rider is the fastest on the flat, the heaviest downhill: the fastest of all.
+    fastest = max(range(len(masses)), key=lambda i: max(speeds[i], downhill[i]))
+    speed, mass = speeds[fastest], masses[fastest]
+    highest = max(speed, downhill[fastest])
     where = Where(
-        build.riders[lightest],
+        build.riders[fastest],
         highest,
-        grade is not None and highest > speed,
+        highest > speed,
         grade is not None,
         tag,
     )
@@ -235,7 +239,7 @@ def _contacts(
     subject = f"brake relay contacts, {name}"
     reached = "on the steepest descent" if where.descent else "on the flat"
     situation = (
-        f"At {f(ms_to_kmh(speed))} km/h, the highest speed of the lightest rider "
+        f"At {f(ms_to_kmh(speed))} km/h, the highest speed of any rider, rider "
         f"'{rider.name}' ({reached}), "
         f"the motor turns at {rad_s_to_rpm(omega):.0f} rpm and its {f(emf)} V back-EMF, "
         f"shorted, drives {f(current)} A round a {f(loop.resistance)} ohm loop (winding and "

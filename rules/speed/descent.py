@@ -44,7 +44,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       For each rider (mass with ``vehicle.mass``): the terminal speed coasting down the
       steepest grade (gravity against rolling resistance and drag, the drive off) and with
       regenerative braking only (``rules._shared.regen``: F = V I / v above the fade speed),
-      against the profile's ``speed.max_speed.<class>``. For the lightest rider (the fastest)
+      against the profile's ``speed.max_speed.<class>``. For the fastest rider downhill
       at the speed down the descent at full throttle (a motor above its no-load speed taken to
       brake nothing), each motor's back-EMF E = Ke w against the pack's full voltage and
       ``controller.max_input_voltage``.
@@ -83,8 +83,8 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         yield from _rider(
             profile, drive, rider, vehicle + in_unit(rider.mass, "kg"), percent, regen
         )
-    lightest = vehicle + min(in_unit(r.mass, "kg") for r in build.riders)
-    yield from _back_emf(build, drive, lightest, percent)
+    masses = [vehicle + in_unit(r.mass, "kg") for r in build.riders]
+    yield from _back_emf(build, drive, masses, percent)
 
 
 def _regenerates(build: Build) -> bool:
@@ -164,9 +164,10 @@ def _rider(
     )
 
 
-def _back_emf(build: Build, drive: Drive, mass: float, percent: float) -> Iterator[Output]:
+def _back_emf(build: Build, drive: Drive, masses: list[float], percent: float) -> Iterator[Output]:
     f = u.format_number
-    speed = drive.descent_speed(mass, percent)
+    # downhill the heaviest rider runs fastest (gravity grows with mass, drag does not)
+    speed = max(drive.descent_speed(mass, percent) for mass in masses)
     omega = motor_speed_for(speed, drive.reduction, drive.wheel_radius)
     assert build.battery is not None
     full = figures.pack_voltages(build.battery).full
@@ -178,7 +179,7 @@ def _back_emf(build: Build, drive: Drive, mass: float, percent: float) -> Iterat
         emf = back_emf_constant(line.kv_rpm_per_v) * omega
         subject = f"back-EMF on the steepest descent, motor '{motor.name}'"
         text = (
-            f"Down the {f(percent)} % descent the lightest rider reaches {f(ms_to_kmh(speed))} "
+            f"Down the {f(percent)} % descent the fastest rider reaches {f(ms_to_kmh(speed))} "
             f"km/h; motor '{motor.name}' then generates {f(emf)} V against the {f(full)} V full "
             "pack"
         )
