@@ -7,6 +7,7 @@ Markdown escaping were ever bypassed. The page shell and its print stylesheet li
 
 from __future__ import annotations
 
+import re
 from functools import cache
 
 import jinja2
@@ -35,8 +36,29 @@ def _environment() -> jinja2.Environment:
     )
 
 
+# The review's own bold severity words and verdict, as markdown-it renders them; text from a
+# build file is escaped before it reaches Markdown, so it can never produce these tags.
+_SEVERITY = re.compile(r"<strong>(STOP|FIX|ADVISE)( \(WAIVED\))?</strong>")
+_VERDICT = re.compile(r"<strong>Verdict: (GO|NO-GO|CONDITIONAL|INCOMPLETE)</strong>")
+
+
 def markdown_to_html(markdown: str) -> str:
     return _markdown().render(markdown)
+
+
+def _mark_severities(html: str) -> str:
+    html = _SEVERITY.sub(
+        lambda m: (
+            f'<strong class="sev sev-{m.group(1).lower()}">{m.group(1)}{m.group(2) or ""}</strong>'
+        ),
+        html,
+    )
+    return _VERDICT.sub(
+        lambda m: (
+            f'<strong class="verdict verdict-{m.group(1).lower()}">Verdict: {m.group(1)}</strong>'
+        ),
+        html,
+    )
 
 
 def page_from_markdown(markdown: str, *, title: str) -> str:
@@ -49,6 +71,7 @@ def page_from_markdown(markdown: str, *, title: str) -> str:
 
 
 def render_html(review: Review, markdown: str) -> str:
-    body = Markup(markdown_to_html(markdown))  # markdown-it output with raw HTML disabled
+    # markdown-it output with raw HTML disabled, with the review's own severity words marked
+    body = Markup(_mark_severities(markdown_to_html(markdown)))
     template = _environment().get_template("review.html.j2")
     return template.render(review=review, body=body) + "\n"

@@ -16,7 +16,7 @@ from typing import Any
 import jinja2
 
 from reviewer.engine import Review
-from reviewer.findings import Comparison, Finding, Severity
+from reviewer.findings import Comparison, Finding, Severity, Source
 from reviewer.template_cache import bytecode_cache
 from reviewer.units import format_number, format_quantity
 
@@ -107,16 +107,68 @@ def _limit(finding: Finding) -> str:
 
 
 class Shown:
-    """A finding's figures as the review prints them, formatted once per render: the summary
-    table and then the details or the pass table show the same three. (A plain class: a
+    """A finding's figures as the review prints them, formatted once per render, with the
+    numbers of its references and the build fields its remedy names. (A plain class: a
     dataclass would cost a millisecond to define on every start.)"""
 
-    __slots__ = ("limit", "margin", "measured")
+    __slots__ = ("fields", "limit", "margin", "measured", "refs")
 
-    def __init__(self, finding: Finding) -> None:
+    def __init__(self, finding: Finding, refs: dict[Source, int]) -> None:
         self.measured = _quantity(finding.measured)
         self.limit = _limit(finding)
         self.margin = _margin(finding)
+        numbers = sorted({refs[s] for s in finding.sources})
+        self.refs = "[" + ", ".join(map(str, numbers)) + "]" if numbers else ""
+        self.fields = remedy_fields(finding.remedy or "")
+
+
+_FIELD_TEXT = re.compile(r"\b[a-z_]+(?:\[\d*\])?(?:\.[a-z_]+(?:\[\d*\])?)+\b")
+
+
+@cache
+def _field_names() -> frozenset[str]:
+    """Every build-file field path with list indices left out (``motors.cooling.fan``)."""
+    from pydantic import BaseModel
+
+    from reviewer.build import Build
+
+    names: set[str] = set()
+
+    def walk(model: type[BaseModel], prefix: str) -> None:
+        for name, field in model.model_fields.items():
+            key = f"{prefix}{field.alias or name}"
+            names.add(key)
+            stack = [field.annotation]
+            while stack:
+                kind = stack.pop()
+                if isinstance(kind, type) and issubclass(kind, BaseModel):
+                    walk(kind, key + ".")
+                stack.extend(getattr(kind, "__args__", ()))
+
+    walk(Build, "")
+    return frozenset(names)
+
+
+def remedy_fields(remedy: str) -> tuple[str, ...]:
+    """The build fields a remedy names (``controller.regen_current_limit``), in order."""
+    found = []
+    for match in _FIELD_TEXT.finditer(remedy):
+        text = match.group(0)
+        if re.sub(r"\[\d*\]", "", text) in _field_names() and text not in found:
+            found.append(text)
+    return tuple(found)
+
+
+def references(review: Review, ordered: list[Finding]) -> dict[Source, int]:
+    """Each source cited, numbered once in the order the review first cites it."""
+    refs: dict[Source, int] = {}
+    for finding in ordered:
+        for source in finding.sources:
+            refs.setdefault(source, len(refs) + 1)
+    for assumption in review.assumptions:
+        if assumption.source is not None:
+            refs.setdefault(assumption.source, len(refs) + 1)
+    return refs
 
 
 def template_folder() -> Traversable:
@@ -147,18 +199,25 @@ def environment() -> jinja2.Environment:
     return env
 
 
+_ACT_ORDER = (Severity.STOP, Severity.FIX, Severity.ADVISE)
+
+
 def render_markdown(review: Review) -> str:
     template = environment().get_template("review.md.j2")
     findings = list(review.findings)
     counts = [(s, review.count(s)) for s in SEVERITY_ORDER]
-    rows = [(f, Shown(f)) for f in findings]  # (finding, its figures as text)
+    acted = [f for severity in _ACT_ORDER for f in findings if f.severity is severity]
+    unassessed = [f for f in findings if f.severity is Severity.UNASSESSED]
+    passed = [f for f in findings if f.severity is Severity.PASS]
+    # a waived finding is still listed where its severity puts it, marked waived
+    refs = references(review, acted + unassessed + passed)
     text = template.render(
         review=review,
         build=review.build,
         counts=counts,
-        rows=rows,
-        acted=[row for row in rows if row[0].severity is not Severity.PASS],
-        passed=[row for row in rows if row[0].severity is Severity.PASS],
-        unassessed=[f for f in findings if f.severity is Severity.UNASSESSED],
+        refs=refs,
+        acted=[(f, Shown(f, refs)) for f in acted],
+        passed=[(f, Shown(f, refs)) for f in passed],
+        unassessed=[(f, Shown(f, refs)) for f in unassessed],
     )
     return "\n".join(line.rstrip() for line in text.splitlines()) + "\n"

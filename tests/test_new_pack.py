@@ -74,7 +74,7 @@ def test_the_sample_build_shows_the_packs_finding_in_a_review(new_pack, capsys) 
     )
     out = capsys.readouterr().out
     assert status == 1  # the sample gives only the vehicle: the built-in rules are unassessed
-    assert "| fix | my-club.vehicle-mass | vehicle | 34 kg | ≤ 30 kg |" in out
+    assert "**FIX** my-club.vehicle-mass, vehicle (34 kg, limit ≤ 30 kg" in out
 
 
 def _single_file(folder: Path) -> Path:

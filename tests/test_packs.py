@@ -584,7 +584,7 @@ def test_example_club_pack_in_a_review(tmp_path: Path, monkeypatch, capsys) -> N
     text = out.read_text("utf-8")
     assert status in (0, 1)
     assert "millrace 0.1.0" in text
-    assert "| pass | millrace.kill-switch | kill switch voltage rating | 48 V | ≥ 29.4 V |" in text
+    assert "| millrace.kill-switch | kill switch voltage rating | 48 V | ≥ 29.4 V |" in text
     assert "Millrace Park Riders club limits" in text and "extends (built-in) default.toml" in text
     # Blocking the required pack leaves it unloaded and the review incomplete.
     assert (

@@ -289,6 +289,22 @@ def test_downhill_the_heaviest_rider_sets_the_back_emf() -> None:
     assert emf.measured.m_as("V") == pytest.approx(KT * coast * 5 / 0.1, rel=1e-4)
 
 
+def test_weak_regeneration_lets_a_fast_vehicle_run_away() -> None:
+    # energy balance: 1 A into a 30 V pack brakes with F = V I / v, 21.6 N at 5 km/h, below the
+    # 88 N the 10 % slope pulls beyond rolling resistance: it holds nothing, and from speed the
+    # vehicle runs to where drag plus V I / v meet the pull, just under the coasting speed
+    data = scooter(usage__steepest_grade="10 %", controller__regen=True)
+    data["controller"]["regen_current_limit"] = "1 A"
+    theta = math.atan(0.10)
+    pull = 100 * G * (math.sin(theta) - 0.01 * math.cos(theta))
+    coast = math.sqrt(pull / (0.5 * RHO))
+    _, figures, _ = rule_outputs(DESCENT, data)
+    (regen,) = [f for f in figures if f.name.startswith("speed down the descent on regen")]
+    runaway = regen.value.m_as("m/s")
+    assert runaway < coast
+    assert pull == pytest.approx(0.5 * RHO * runaway**2 + 30.0 * 1.0 / runaway, rel=1e-3)
+
+
 def test_no_descent_given_is_unassessed() -> None:
     findings = run_rule_on(DESCENT, scooter(usage__steepest_grade=None))
     assert [f.missing for f in findings] == [("usage.steepest_grade",)]

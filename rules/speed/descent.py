@@ -92,24 +92,41 @@ def _regenerates(build: Build) -> bool:
     return regenerative or (build.controller is not None and build.controller.regen is True)
 
 
-def _with_regen(drive: Drive, mass: float, percent: float, regen: RegenForce) -> float:
-    """The speed a vehicle settles at from rest with regenerative braking only: the first speed
-    where the regen force and road load match gravity's pull (scanned, then bisected)."""
+def _with_regen(
+    drive: Drive, mass: float, percent: float, regen: RegenForce
+) -> tuple[float, float | None]:
+    """What regenerative braking alone does down the descent: the speed below which it holds
+    the vehicle back (``math.inf`` at every speed; its fade speed if not even there), and the
+    speed it runs on to from a higher one (None where it never runs away; ``math.inf`` where
+    nothing balances the slope). A power-limited force V I / v falls with speed, so it can hold
+    a slow vehicle and let a fast one run away."""
 
     def surplus(v: float) -> float:
         load = road_load_force(mass, v, drive.rolling_resistance, drive.drag_area, -percent)
         return -(load + regen(v))
 
-    step, v = 0.05, 0.0
+    def root(low: float, high: float) -> float:
+        rising = surplus(high) > surplus(low)
+        for _ in range(50):
+            middle = 0.5 * (low + high)
+            if (surplus(middle) > 0.0) == rising:
+                high = middle
+            else:
+                low = middle
+        return 0.5 * (low + high)
+
+    step = 0.05
+    v = regen.fade_speed + 1e-6
+    previous = surplus(v)
+    held = math.inf if previous <= 0.0 else regen.fade_speed
     while v < 200.0:
-        if surplus(v + step) <= 0.0:
-            low, high = v, v + step
-            for _ in range(50):
-                middle = 0.5 * (low + high)
-                low, high = (middle, high) if surplus(middle) > 0.0 else (low, middle)
-            return high
-        v += step
-    return math.inf
+        following = surplus(v + step)
+        if previous <= 0.0 < following:
+            held = root(v, v + step)
+        elif previous > 0.0 >= following:
+            return held, root(v, v + step)
+        previous, v = following, v + step
+    return held, (math.inf if previous > 0.0 else None)
 
 
 def _rider(
@@ -137,15 +154,29 @@ def _rider(
         f"{rider.rider_class.value} limit of {f(cap)} km/h."
     )
     if regen is not None:
-        held = _with_regen(drive, mass, percent, regen)
-        held_text = f"{f(ms_to_kmh(held))} km/h" if math.isfinite(held) else "no steady speed"
+        held, runaway = _with_regen(drive, mass, percent, regen)
+        fade = f(ms_to_kmh(regen.fade_speed))
+        if runaway is None:
+            value: object = u.quantity(ms_to_kmh(regen.fade_speed), _KMH)
+            text += (
+                f" Regenerative braking alone ({f(regen.current)} A into the pack) holds it back "
+                f"at any speed, down to its {fade} km/h fade, while the pack accepts charge."
+            )
+        else:
+            finite = math.isfinite(runaway)
+            runs = f"{f(ms_to_kmh(runaway))} km/h" if finite else "no steady speed"
+            value = u.quantity(ms_to_kmh(runaway), _KMH) if finite else "no steady speed"
+            text += (
+                f" Regenerative braking alone ({f(regen.current)} A, a force that falls with "
+                f"speed) holds it back only below {f(ms_to_kmh(held))} km/h; from any higher "
+                f"speed it runs on to {runs}."
+            )
         yield DerivedFigure(
             f"speed down the descent on regenerative braking alone, rider '{rider.name}'",
-            u.quantity(ms_to_kmh(held), _KMH) if math.isfinite(held) else "no steady speed",
-            note=f"{f(regen.current)} A into the pack, F = V I / v",
+            value,
+            note=f"{f(regen.current)} A into the pack, F = V I / v, from the highest speed",
             order=65,
         )
-        text += f" On regenerative braking alone it settles at {held_text}."
     over = kmh > cap
     if over:
         text += " The rider must brake all the way down."
