@@ -56,6 +56,12 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         metavar="N",
         help="for a fleet: review in N processes (default 1; 0 = one per core)",
     )
+    parser.add_argument(
+        "-q",
+        "--quiet",
+        action="store_true",
+        help="nothing on stderr but errors (no verdict line, no summary)",
+    )
     add_pack_arguments(parser)
 
 
@@ -92,7 +98,9 @@ def run(args: argparse.Namespace) -> int:
         write_whole(Path(args.output), text, inputs=[*read, *result.profile.extends])
     else:
         sys.stdout.write(text)
-    print(f"firstride: verdict {result.verdict.value}", file=sys.stderr)
+    from reviewer.terminal import report
+
+    report(result, sys.stderr, quiet=args.quiet)
     return exit_status(result, args.fail_on)
 
 
