@@ -1,0 +1,385 @@
+"""One rider on a route, stepped in time: speed, motor currents, winding heat and the pack.
+
+Quasi-static and deterministic. Each step the operating point is read off the drive
+(:class:`reviewer.engineering.roadload.Drive`, its torque-speed lines with both current limits):
+
+- cruising: speed = min(target, the drive's steady top speed on the grade); the wheel force is
+  the road load (brief 3), the total motor torque F r / (reduction x efficiency), shared among
+  the motors in proportion to what each line gives at that speed (equally for identical
+  motors), and I = T / Kt + I0, never above the line. A demand at or below zero (a descent the
+  rider holds with the brakes) draws no current; regeneration is left out.
+- from rest (a stop, the start of the ride) or below the cruise speed: full throttle, each
+  motor on its line, a = (F_drive - F_road) / m, an explicit step on speed with the forces at
+  the step's start; a step ends early where the cruise speed or a segment end is reached.
+  Braking to a stop is instant and there is no dwell (no cooling credited while stopped).
+
+The lines use the pack's open-circuit voltage at the step's state of charge (rounded down to
+``voltage_step``; lower, so never a faster climb than the pack gives), with the drive's own
+resistances (its shared resistance normally the pack's plus the shared wiring). Motor input
+per motor is P = (E + I R) I, E = Ke w, R the motor's branch with the winding at its present
+temperature; the battery current delivers the sum through the pack's and ``wiring_resistance``
+(:func:`reviewer.engineering.ride_pack.battery_current`). Windings step exactly
+(:func:`reviewer.engineering.ride_thermal.winding_step`), runaway allowed and timed.
+
+A ride ends early, with ``stop_reason`` set, when the drive cannot climb a grade, the pack
+cannot deliver the power, or the pack is empty; the series then run to that point.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field, replace
+
+from reviewer.engineering.motor import TorqueSpeedLine
+from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
+from reviewer.engineering.ride_thermal import Winding, winding_step
+from reviewer.engineering.roadload import (
+    Drive,
+    ground_speed_for,
+    road_load_force,
+    top_speed,
+)
+
+_MAX_STEPS = 2_000_000
+_SNAP = 1e-6  # relative: within this of the cruise speed counts as there
+_EPS_M = 1e-9  # m: a distance this short is no step
+_CHECK = 1e-9  # relative tolerance of the invariants
+
+
+class RideModelError(AssertionError):
+    """An invariant of the model failed: a defect in the model, never an input's fault."""
+
+
+def _require(condition: bool, message: str) -> None:
+    if not condition:
+        raise RideModelError(message)
+
+
+@dataclass(frozen=True)
+class Segment:
+    """A stretch of route: ``grade_percent`` positive uphill, ``target_speed_ms`` None for as fast
+    as the drive goes, ``stops`` starts from rest spread evenly inside it (at k / (stops + 1)
+    of its length)."""
+
+    length_m: float
+    grade_percent: float
+    target_speed_ms: float | None = None
+    stops: int = 0
+
+    def __post_init__(self) -> None:
+        if not (self.length_m > 0 and math.isfinite(self.length_m)):
+            raise ValueError("a segment's length must be positive and finite")
+        if not math.isfinite(self.grade_percent):
+            raise ValueError("a segment's grade must be finite")
+        if self.target_speed_ms is not None and not self.target_speed_ms > 0:
+            raise ValueError("a target speed must be positive (None for the drive's top speed)")
+        if self.stops < 0:
+            raise ValueError("stops must not be negative")
+
+
+@dataclass
+class RideResult:
+    """Series and summaries of one simulated ride.
+
+    Sample k describes step k: time, distance, speed, winding temperatures and state of charge
+    at the step's end; motor currents, battery current and terminal voltage held during it.
+    """
+
+    time_s: list[float] = field(default_factory=list)
+    distance_m: list[float] = field(default_factory=list)
+    speed_ms: list[float] = field(default_factory=list)
+    motor_current_a: list[tuple[float, ...]] = field(default_factory=list)
+    battery_current_a: list[float] = field(default_factory=list)
+    winding_c: list[tuple[float, ...]] = field(default_factory=list)
+    terminal_v: list[float] = field(default_factory=list)
+    state_of_charge: list[float] = field(default_factory=list)
+    cutoff_v: float = 0.0
+    peak_winding_c: float = -math.inf
+    peak_time_s: float = 0.0
+    peak_distance_m: float = 0.0
+    peak_motor: int = 0
+    min_terminal_v: float = math.inf
+    min_voltage_time_s: float = 0.0
+    min_voltage_distance_m: float = 0.0
+    min_voltage_soc: float = 1.0
+    first_below_cutoff_s: float | None = None
+    first_below_cutoff_m: float | None = None
+    cell_energy_wh: float = 0.0  # integral of OCV I_b: what leaves the cells, internal loss in
+    terminal_energy_wh: float = 0.0  # integral of V I_b at the pack terminals
+    shaft_energy_wh: float = 0.0  # integral of T w over all motors: wheel energy / efficiency
+    charge_ah: float = 0.0
+    runaway_s: float = 0.0  # time with some winding past its runaway current
+    stop_reason: str | None = None
+
+    @property
+    def completed(self) -> bool:
+        return self.stop_reason is None
+
+    @property
+    def distance(self) -> float:
+        return self.distance_m[-1] if self.distance_m else 0.0
+
+    @property
+    def duration(self) -> float:
+        return self.time_s[-1] if self.time_s else 0.0
+
+    @property
+    def below_cutoff(self) -> bool:
+        """Whether the terminal voltage fell below the cut-off under load at any step."""
+        return self.first_below_cutoff_s is not None
+
+    def wh_per_km(self, which: str = "cell") -> float:
+        """Energy per km over the distance ridden: ``cell``, ``terminal`` or ``shaft``."""
+        energy = {
+            "cell": self.cell_energy_wh,
+            "terminal": self.terminal_energy_wh,
+            "shaft": self.shaft_energy_wh,
+        }[which]
+        return energy / (self.distance / 1000.0) if self.distance > 0 else math.nan
+
+
+@dataclass(frozen=True)
+class _Leg:
+    start_m: float
+    end_m: float
+    grade: float
+    target: float | None
+    from_rest: bool
+
+
+def _legs(segments: Sequence[Segment]) -> list[_Leg]:
+    legs, start = [], 0.0
+    for segment in segments:
+        pieces = segment.stops + 1
+        for k in range(pieces):
+            a = start + segment.length_m * k / pieces
+            b = start + segment.length_m * (k + 1) / pieces
+            legs.append(_Leg(a, b, segment.grade_percent, segment.target_speed_ms, k > 0))
+        start += segment.length_m
+    return legs
+
+
+class _DriveAt:
+    """The drive's lines at one pack voltage, and its cruise speeds there by grade."""
+
+    def __init__(self, drive: Drive, voltage: float, total_mass: float) -> None:
+        self.drive = drive
+        self.lines: list[TorqueSpeedLine] = replace(drive, full_voltage=voltage).lines()
+        self.mass = total_mass
+        self._pull = drive._drive_force(self.lines, drive.reduction)
+        self._bound = max(
+            ground_speed_for(line.no_load_speed, drive.reduction, drive.wheel_radius)
+            for line in self.lines
+        )
+        self._top: dict[float, float] = {}
+
+    def pull(self, speed: float) -> float:
+        return self._pull(speed)
+
+    def top_speed(self, grade: float) -> float:
+        if grade not in self._top:
+            d = self.drive
+            self._top[grade] = top_speed(
+                lambda v: max(self._pull(v), 0.0),
+                self.mass,
+                d.rolling_resistance,
+                d.drag_area,
+                self._bound,
+                grade,
+            )
+        return self._top[grade]
+
+
+def simulate(
+    drive: Drive,
+    total_mass: float,
+    segments: Sequence[Segment],
+    winding: Winding | Sequence[Winding],
+    pack: PackModel,
+    dt: float = 1.0,
+    *,
+    cutoff_voltage: float | None = None,
+    wiring_resistance: float = 0.0,
+    start_speed_ms: float = 0.0,
+    voltage_step: float = 0.05,
+) -> RideResult:
+    """Ride ``segments`` in order with ``total_mass`` kg (vehicle and rider) and step ``dt`` s.
+
+    ``winding``: one per motor of the drive, or one for all. ``cutoff_voltage``: the terminal
+    voltage below which the controller or BMS cuts (the pack chemistry's cut-off when None);
+    crossing it is recorded, the ride goes on. ``start_speed_ms``: speed at the start (rest).
+    """
+    windings = tuple(winding) if isinstance(winding, Sequence) else (winding,) * len(drive.motors)
+    if len(windings) != len(drive.motors):
+        raise ValueError("give one winding per motor of the drive, or one for all")
+    extra_r = []  # ohm: each motor's branch besides its winding (switch, wires)
+    for motor, w in zip(drive.motors, windings, strict=True):
+        if motor.branch_resistance < w.resistance_20c * (1.0 - _CHECK):
+            raise ValueError("a motor's branch resistance is below its winding's own resistance")
+        extra_r.append(max(motor.branch_resistance - w.resistance_20c, 0.0))
+    if not (dt > 0 and total_mass > 0 and voltage_step > 0 and wiring_resistance >= 0):
+        raise ValueError("dt, mass and voltage step must be positive, wiring resistance >= 0")
+    if not segments:
+        raise ValueError("a route needs at least one segment")
+
+    result = RideResult(cutoff_v=pack.cutoff_voltage if cutoff_voltage is None else cutoff_voltage)
+    radius, ratio, eff = drive.wheel_radius, drive.reduction, drive.efficiency
+    crr, cda = drive.rolling_resistance, drive.drag_area
+    r_total = pack.resistance + wiring_resistance
+    capacity_as = pack.capacity_ah * 3600.0
+    drives: dict[int, _DriveAt] = {}
+
+    t, x, v, soc = 0.0, 0.0, max(start_speed_ms, 0.0), pack.state_of_charge
+    thetas = [w.initial_c for w in windings]
+    result.peak_winding_c = max(thetas)
+    result.peak_motor = thetas.index(result.peak_winding_c)
+    steps = 0
+    for leg in _legs(segments):
+        if leg.from_rest:
+            v = 0.0
+        while x < leg.end_m - _EPS_M:
+            steps += 1
+            if steps > _MAX_STEPS:
+                raise ValueError("the ride needs too many steps; use a longer dt")
+            ocv = pack.open_circuit_voltage(soc)
+            key = math.floor(ocv / voltage_step)
+            at = drives.get(key)
+            if at is None:
+                at = drives[key] = _DriveAt(drive, key * voltage_step, total_mass)
+            lines = at.lines
+            top = at.top_speed(leg.grade)
+            if top <= 0.0:
+                result.stop_reason = (
+                    f"the drive cannot climb {leg.grade:g} % at {ocv:.3g} V (stalled at {x:.0f} m)"
+                )
+                return result
+            cruise = top if leg.target is None else min(leg.target, top)
+            v = min(v, cruise)
+            omega = v / radius * ratio
+            remaining = leg.end_m - x
+            load = road_load_force(total_mass, v, crr, cda, leg.grade)
+            if v < cruise * (1.0 - _SNAP):  # full throttle
+                currents = [max(line.current(omega), 0.0) for line in lines]
+                accel = (max(at.pull(v), 0.0) - load) / total_mass
+                _require(accel > 0, "below the top speed the drive must outpull the load")
+                step = min(dt, (cruise - v) / accel)
+                distance = v * step + 0.5 * accel * step * step
+                if distance > remaining:
+                    step = 2.0 * remaining / (v + math.sqrt(v * v + 2.0 * accel * remaining))
+                    distance = remaining
+                v_next = min(v + accel * step, cruise)
+            else:  # cruise
+                v = cruise
+                omega = v / radius * ratio
+                load = road_load_force(total_mass, v, crr, cda, leg.grade)
+                currents = _cruise_currents(lines, load * radius / (eff * ratio), omega)
+                step = min(dt, remaining / v)
+                distance = v * step
+                if distance > remaining or remaining - distance < _EPS_M:
+                    distance = remaining
+                v_next = v
+
+            # Electrical input, copper loss and the pack.
+            power = 0.0
+            shaft = 0.0
+            for k, (line, current) in enumerate(zip(lines, currents, strict=True)):
+                w = windings[k]
+                r_winding = w.resistance(thetas[k])
+                electrical = (line.ke * omega + current * (extra_r[k] + r_winding)) * current
+                copper = current * current * r_winding
+                _require(copper <= electrical * (1 + _CHECK) + 1e-12, "copper loss > input")
+                power += electrical
+                if current > line.no_load_current:
+                    shaft += line.kt * (current - line.no_load_current) * omega
+            try:
+                i_batt = battery_current(ocv, r_total, power)
+            except PackPowerExceeded as exc:
+                result.stop_reason = f"{exc} (at {x:.0f} m, state of charge {soc:.3f})"
+                return result
+            terminal = ocv - i_batt * pack.resistance
+            delivered = terminal * i_batt - i_batt * i_batt * wiring_resistance
+            _require(
+                abs(delivered - power) <= _CHECK * max(1.0, power), "pack power != drive input"
+            )
+
+            runaway = False
+            for k, current in enumerate(currents):
+                before = thetas[k]
+                thetas[k] = winding_step(before, current, step, windings[k], v, allow_runaway=True)
+                runaway = runaway or (
+                    thetas[k] - before > 0 and _is_runaway(current, windings[k], v)
+                )
+                if not math.isfinite(thetas[k]):
+                    result.stop_reason = f"thermal runaway beyond any temperature at {x:.0f} m"
+                    return result
+            soc_next = soc - i_batt * step / capacity_as
+            t += step
+            x = leg.end_m if distance >= remaining else x + distance
+            v = v_next
+            _record(result, t, x, v, currents, i_batt, thetas, terminal, max(soc_next, 0.0))
+            result.cell_energy_wh += ocv * i_batt * step / 3600.0
+            result.terminal_energy_wh += terminal * i_batt * step / 3600.0
+            result.shaft_energy_wh += shaft * step / 3600.0
+            result.charge_ah += i_batt * step / 3600.0
+            if runaway:
+                result.runaway_s += step
+            _require(soc_next <= soc, "state of charge must not rise while driving")
+            soc = soc_next
+            if soc <= 0.0:
+                result.stop_reason = f"the pack is empty at {x:.0f} m"
+                return result
+    return result
+
+
+def _is_runaway(current: float, winding: Winding, speed: float) -> bool:
+    return (
+        current * current * winding.resistance_20c * winding.alpha * winding.thermal_resistance
+        >= winding.cooling(speed)
+    )
+
+
+def _cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -> list[float]:
+    """Motor currents giving ``torque`` N m in all, shared in proportion to each line's
+    torque at ``omega``; I = T / Kt + I0, never above the line."""
+    if torque <= 0.0:
+        return [0.0] * len(lines)
+    maxima = [max(line.torque(omega), 0.0) for line in lines]
+    total = sum(maxima)
+    _require(total >= torque * (1.0 - 1e-6), "cruise demands more torque than the drive gives")
+    currents = []
+    for line, most in zip(lines, maxima, strict=True):
+        share = torque * most / total
+        current = share / line.kt + line.no_load_current
+        currents.append(min(current, line.current(omega)))
+    return currents
+
+
+def _record(
+    result: RideResult,
+    t: float,
+    x: float,
+    v: float,
+    currents: list[float],
+    i_batt: float,
+    thetas: list[float],
+    terminal: float,
+    soc: float,
+) -> None:
+    result.time_s.append(t)
+    result.distance_m.append(x)
+    result.speed_ms.append(v)
+    result.motor_current_a.append(tuple(currents))
+    result.battery_current_a.append(i_batt)
+    result.winding_c.append(tuple(thetas))
+    result.terminal_v.append(terminal)
+    result.state_of_charge.append(soc)
+    hottest = max(thetas)
+    if hottest > result.peak_winding_c:
+        result.peak_winding_c, result.peak_time_s, result.peak_distance_m = hottest, t, x
+        result.peak_motor = thetas.index(hottest)
+    if terminal < result.min_terminal_v:
+        result.min_terminal_v, result.min_voltage_time_s = terminal, t
+        result.min_voltage_distance_m, result.min_voltage_soc = x, soc
+    if terminal < result.cutoff_v and result.first_below_cutoff_s is None:
+        result.first_below_cutoff_s, result.first_below_cutoff_m = t, x
