@@ -123,6 +123,33 @@ def test_runaway_is_reported_not_stepped_silently() -> None:
     assert math.isfinite(grown) and grown > 60.0
 
 
+def test_a_ride_times_the_runaway() -> None:
+    # the same bound in the ride: 8 % at 3 m/s needs about 33 A, above this winding's runaway
+    # current (about 31.6 A), 4 % about 19 A, below it; thermal.py agrees (inf, finite)
+    winding = hub_winding()
+    steep = [Segment(600.0, 8.0, 3.0)]
+    result = simulate(hub_drive(), 110.0, steep, winding, PACK, start_speed_ms=3.0)
+    (current,) = result.motor_current_a[-1]
+    assert current > runaway_current(winding)
+    args = (winding.resistance_20c, winding.thermal_resistance, winding.ambient_c)
+    assert math.isinf(steady_winding_temperature(current, *args))
+    assert result.runaway_s == pytest.approx(result.duration)
+    mild = [Segment(600.0, 4.0, 3.0)]
+    assert simulate(hub_drive(), 110.0, mild, winding, PACK, start_speed_ms=3.0).runaway_s == 0.0
+    # a start from rest at the 40 A limit is past the runaway current for its few seconds
+    assert 0.0 < simulate(hub_drive(), 110.0, mild, winding, PACK).runaway_s < 10.0
+
+
+def test_a_hot_winding_climbs_slower_on_the_voltage_limited_line() -> None:
+    # V = E + I R (brief 3; Chapman): at full throttle a hotter, higher-resistance winding leaves
+    # less back-EMF for the same current, so the top speed up a hill falls
+    route = [Segment(300.0, 3.0, None)]
+    cold = simulate(hub_drive(), 110.0, route, hub_winding(start_c=40.0), PACK)
+    hot = simulate(hub_drive(), 110.0, route, hub_winding(start_c=150.0), PACK)
+    assert max(hot.speed_ms) < max(cold.speed_ms)
+    assert hot.duration > cold.duration
+
+
 def test_copper_coefficient_and_heat_capacities() -> None:
     # IEC 60228 / CRC Handbook: annealed copper 0.00393 /K at 20 degC, = 1/254.5 to 3 digits
     assert COPPER_ALPHA_20 == 0.00393

@@ -14,8 +14,11 @@ Quasi-static and deterministic. Each step the operating point is read off the dr
   Braking to a stop is instant and there is no dwell (no cooling credited while stopped).
 
 The lines use the pack's open-circuit voltage at the step's state of charge (rounded down to
-``voltage_step``; lower, so never a faster climb than the pack gives), with the drive's own
-resistances (its shared resistance normally the pack's plus the shared wiring). Motor input
+``voltage_step``) and each winding's resistance at its present temperature (rounded up to
+``temperature_step`` K): the drive's branch resistances are taken as at 20 degC, its shared
+resistance as the pack's plus the shared wiring. Both roundings give a little less current and
+speed than the pack and the hot winding allow, never a faster climb (a hot winding on the
+voltage-limited part of its line pulls less: the vehicle stays longer on the hill). Motor input
 per motor is P = (E + I R) I, E = Ke w, R the motor's branch with the winding at its present
 temperature; the battery current delivers the sum through the pack's and ``wiring_resistance``
 (:func:`reviewer.engineering.ride_pack.battery_current`). Windings step exactly
@@ -33,7 +36,7 @@ from dataclasses import dataclass, field, replace
 
 from reviewer.engineering.motor import TorqueSpeedLine
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
-from reviewer.engineering.ride_thermal import Winding, winding_step
+from reviewer.engineering.ride_thermal import Winding, runaway_parameter, winding_step
 from reviewer.engineering.roadload import (
     Drive,
     ground_speed_for,
@@ -161,34 +164,41 @@ def _legs(segments: Sequence[Segment]) -> list[_Leg]:
 
 
 class _DriveAt:
-    """The drive's lines at one pack voltage, and its cruise speeds there by grade."""
+    """The drive's lines at one pack voltage and winding temperature, and its cruise speeds."""
 
-    def __init__(self, drive: Drive, voltage: float, total_mass: float) -> None:
-        self.drive = drive
-        self.lines: list[TorqueSpeedLine] = replace(drive, full_voltage=voltage).lines()
-        self.mass = total_mass
-        self._pull = drive._drive_force(self.lines, drive.reduction)
-        self._bound = max(
-            ground_speed_for(line.no_load_speed, drive.reduction, drive.wheel_radius)
-            for line in self.lines
+    def __init__(self, drive: Drive, voltage: float, extra: Sequence[float], mass: float) -> None:
+        self.drive, self.mass = drive, mass
+        motors = tuple(
+            replace(m, branch_resistance=m.branch_resistance + r)
+            for m, r in zip(drive.motors, extra, strict=True)
         )
-        self._top: dict[float, float] = {}
+        self.lines = replace(drive, full_voltage=voltage, motors=motors).lines()
+        self.pull = drive._drive_force(self.lines, drive.reduction)
+        self._cruise: dict[tuple[float, float | None], float] = {}
 
-    def pull(self, speed: float) -> float:
-        return self._pull(speed)
-
-    def top_speed(self, grade: float) -> float:
-        if grade not in self._top:
+    def cruise(self, grade: float, target: float | None) -> float:
+        """min(target, the steady top speed on ``grade``) in m/s; 0 when it cannot climb."""
+        key = (grade, target)
+        if key not in self._cruise:
             d = self.drive
-            self._top[grade] = top_speed(
-                lambda v: max(self._pull(v), 0.0),
-                self.mass,
-                d.rolling_resistance,
-                d.drag_area,
-                self._bound,
-                grade,
-            )
-        return self._top[grade]
+            if target is not None and max(self.pull(target), 0.0) >= road_load_force(
+                self.mass, target, d.rolling_resistance, d.drag_area, grade
+            ):
+                self._cruise[key] = target  # the load only rises and the pull only falls
+            else:
+                bound = max(
+                    ground_speed_for(line.no_load_speed, d.reduction, d.wheel_radius)
+                    for line in self.lines
+                )
+                self._cruise[key] = top_speed(
+                    lambda v: max(self.pull(v), 0.0),
+                    self.mass,
+                    d.rolling_resistance,
+                    d.drag_area,
+                    bound,
+                    grade,
+                )
+        return self._cruise[key]
 
 
 def simulate(
@@ -203,13 +213,17 @@ def simulate(
     wiring_resistance: float = 0.0,
     start_speed_ms: float = 0.0,
     voltage_step: float = 0.05,
+    temperature_step: float = 5.0,
 ) -> RideResult:
     """Ride ``segments`` in order with ``total_mass`` kg (vehicle and rider) and step ``dt`` s.
 
     ``winding``: one per motor of the drive, or one for all. ``cutoff_voltage``: the terminal
     voltage below which the controller or BMS cuts (the pack chemistry's cut-off when None);
-    crossing it is recorded, the ride goes on. ``start_speed_ms``: speed at the start (rest).
+    crossing it is recorded, the ride goes on. ``wiring_resistance``: shared wiring between the
+    pack and the controller, ohm. ``start_speed_ms``: speed at the start (rest). ``voltage_step``
+    (V) and ``temperature_step`` (K): the grids the drive's lines are taken on.
     """
+    t_step = temperature_step
     windings = tuple(winding) if isinstance(winding, Sequence) else (winding,) * len(drive.motors)
     if len(windings) != len(drive.motors):
         raise ValueError("give one winding per motor of the drive, or one for all")
@@ -218,8 +232,10 @@ def simulate(
         if motor.branch_resistance < w.resistance_20c * (1.0 - _CHECK):
             raise ValueError("a motor's branch resistance is below its winding's own resistance")
         extra_r.append(max(motor.branch_resistance - w.resistance_20c, 0.0))
-    if not (dt > 0 and total_mass > 0 and voltage_step > 0 and wiring_resistance >= 0):
-        raise ValueError("dt, mass and voltage step must be positive, wiring resistance >= 0")
+    if not (
+        dt > 0 and total_mass > 0 and voltage_step > 0 and t_step > 0 and wiring_resistance >= 0
+    ):
+        raise ValueError("dt, mass and the steps must be positive, wiring resistance >= 0")
     if not segments:
         raise ValueError("a route needs at least one segment")
 
@@ -228,7 +244,7 @@ def simulate(
     crr, cda = drive.rolling_resistance, drive.drag_area
     r_total = pack.resistance + wiring_resistance
     capacity_as = pack.capacity_ah * 3600.0
-    drives: dict[int, _DriveAt] = {}
+    drives: dict[tuple[int, ...], _DriveAt] = {}
 
     t, x, v, soc = 0.0, 0.0, max(start_speed_ms, 0.0), pack.state_of_charge
     thetas = [w.initial_c for w in windings]
@@ -243,25 +259,31 @@ def simulate(
             if steps > _MAX_STEPS:
                 raise ValueError("the ride needs too many steps; use a longer dt")
             ocv = pack.open_circuit_voltage(soc)
-            key = math.floor(ocv / voltage_step)
+            key = (math.floor(ocv / voltage_step), *[math.ceil(h / t_step) for h in thetas])
             at = drives.get(key)
             if at is None:
-                at = drives[key] = _DriveAt(drive, key * voltage_step, total_mass)
+                hot = [
+                    w.resistance(n * t_step) - w.resistance_20c
+                    for w, n in zip(windings, key[1:], strict=True)
+                ]
+                at = drives[key] = _DriveAt(drive, key[0] * voltage_step, hot, total_mass)
             lines = at.lines
-            top = at.top_speed(leg.grade)
-            if top <= 0.0:
+            cruise = at.cruise(leg.grade, leg.target)
+            if cruise <= 0.0:
                 result.stop_reason = (
                     f"the drive cannot climb {leg.grade:g} % at {ocv:.3g} V (stalled at {x:.0f} m)"
                 )
                 return result
-            cruise = top if leg.target is None else min(leg.target, top)
             v = min(v, cruise)
-            omega = v / radius * ratio
             remaining = leg.end_m - x
-            load = road_load_force(total_mass, v, crr, cda, leg.grade)
             if v < cruise * (1.0 - _SNAP):  # full throttle
+                omega = v / radius * ratio
                 currents = [max(line.current(omega), 0.0) for line in lines]
-                accel = (max(at.pull(v), 0.0) - load) / total_mass
+                torque = sum(
+                    ln.kt * (c - ln.no_load_current) for ln, c in zip(lines, currents, strict=True)
+                )
+                load = road_load_force(total_mass, v, crr, cda, leg.grade)
+                accel = (max(torque, 0.0) * ratio * eff / radius - load) / total_mass
                 _require(accel > 0, "below the top speed the drive must outpull the load")
                 step = min(dt, (cruise - v) / accel)
                 distance = v * step + 0.5 * accel * step * step
@@ -305,11 +327,8 @@ def simulate(
 
             runaway = False
             for k, current in enumerate(currents):
-                before = thetas[k]
-                thetas[k] = winding_step(before, current, step, windings[k], v, allow_runaway=True)
-                runaway = runaway or (
-                    thetas[k] - before > 0 and _is_runaway(current, windings[k], v)
-                )
+                thetas[k] = winding_step(thetas[k], current, step, windings[k], v, True)
+                runaway = runaway or runaway_parameter(current, windings[k], v) >= 1.0
                 if not math.isfinite(thetas[k]):
                     result.stop_reason = f"thermal runaway beyond any temperature at {x:.0f} m"
                     return result
@@ -332,27 +351,19 @@ def simulate(
     return result
 
 
-def _is_runaway(current: float, winding: Winding, speed: float) -> bool:
-    return (
-        current * current * winding.resistance_20c * winding.alpha * winding.thermal_resistance
-        >= winding.cooling(speed)
-    )
-
-
 def _cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -> list[float]:
     """Motor currents giving ``torque`` N m in all, shared in proportion to each line's
     torque at ``omega``; I = T / Kt + I0, never above the line."""
     if torque <= 0.0:
         return [0.0] * len(lines)
-    maxima = [max(line.torque(omega), 0.0) for line in lines]
+    most = [line.current(omega) for line in lines]
+    maxima = [max(ln.kt * (c - ln.no_load_current), 0.0) for ln, c in zip(lines, most, strict=True)]
     total = sum(maxima)
     _require(total >= torque * (1.0 - 1e-6), "cruise demands more torque than the drive gives")
-    currents = []
-    for line, most in zip(lines, maxima, strict=True):
-        share = torque * most / total
-        current = share / line.kt + line.no_load_current
-        currents.append(min(current, line.current(omega)))
-    return currents
+    return [
+        min(torque * m / total / ln.kt + ln.no_load_current, c)
+        for ln, m, c in zip(lines, maxima, most, strict=True)
+    ]
 
 
 def _record(
