@@ -63,7 +63,10 @@ def main() -> None:
         f"peak winding {result.peak_winding_c:.1f} degC, {result.wh_per_km():.2f} Wh/km, "
         f"lowest {result.min_terminal_v:.2f} V"
     )
-    print(f"median {statistics.median(times) * 1000:.2f} ms over {args.runs} runs (dt {args.dt} s)")
+    print(
+        f"median {statistics.median(times) * 1000:.2f} ms, fastest {min(times) * 1000:.2f} ms "
+        f"over {args.runs} runs (dt {args.dt} s)"
+    )
 
 
 if __name__ == "__main__":
