@@ -162,10 +162,22 @@ def load_toml(text: str, where: str, field: str = _FILE) -> dict[str, Any]:
     check_nesting(text, where, "toml", field)
     try:
         return tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(where, field, f"valid TOML ({exc})") from None
+    except tomllib.TOMLDecodeError as exc:  # one error: the file cannot be read further
+        raise InputError(where, field, f"valid TOML ({exc})", _toml_line(exc, text)) from None
     except RecursionError:  # cannot happen after the scan; kept so it can never show
         raise InputError(where, field, _nesting_text(MAX_NESTING + 1)) from None
+
+
+_AT_LINE = re.compile(r"\(at line (\d+), column \d+\)")
+
+
+def _toml_line(exc: tomllib.TOMLDecodeError, text: str) -> int:
+    """The line the TOML parser names for its error; its last line at the end of the text."""
+    found = getattr(exc, "lineno", None)  # Python 3.14 gives it; older ones only in the text
+    if isinstance(found, int) and found > 0:
+        return found
+    match = _AT_LINE.search(str(exc))
+    return int(match.group(1)) if match else max(1, len(text.splitlines()))
 
 
 def load_json(text: str, where: str, what: str, field: str = _FILE) -> Any:

@@ -3,6 +3,7 @@ and no output file written."""
 
 from __future__ import annotations
 
+import re
 import subprocess
 import sys
 from pathlib import Path
@@ -119,7 +120,7 @@ def test_bad_build_exits_2_with_one_line(name: str, tmp_path: Path, capsys) -> N
     lines = captured.err.strip().splitlines()
     assert code == 2
     assert len(lines) == 1, captured.err
-    assert lines[0].startswith(f"firstride: {build}: "), lines[0]
+    assert re.match(rf"firstride: {re.escape(str(build))}(:[0-9]+)?: ", lines[0]), lines[0]
     assert expected in lines[0], lines[0]
     assert "Traceback" not in captured.err
     assert not output.exists()

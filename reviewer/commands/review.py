@@ -12,7 +12,7 @@ import sys
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from reviewer.commands import EXIT_FINDINGS, EXIT_GO
+from reviewer.commands import EXIT_FINDINGS, EXIT_GO, EXIT_INPUT
 from reviewer.commands.pack_options import add_pack_arguments, packs_from
 
 if TYPE_CHECKING:
@@ -80,16 +80,22 @@ def run(args: argparse.Namespace) -> int:
         from reviewer.commands.review_fleet import run_fleet
 
         return run_fleet(args)
+    from reviewer.errors import InputErrors
     from reviewer.formats import render_review
     from reviewer.session import review_file
 
-    result = review_file(
-        args.build[0],
-        profile=args.profile,
-        packs=lambda: packs_from(args),
-        waivers=args.waivers,
-        since=args.since,
-    )
+    try:
+        result = review_file(
+            args.build[0],
+            profile=args.profile,
+            packs=lambda: packs_from(args),
+            waivers=args.waivers,
+            since=args.since,
+        )
+    except InputErrors as errors:  # every error of the file, one line each, in file order
+        for line in errors.lines():
+            print(f"firstride: {line}", file=sys.stderr)
+        return EXIT_INPUT
     text = render_review(result, args.format)
     if args.output:
         from reviewer.output import write_whole
