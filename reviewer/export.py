@@ -15,7 +15,7 @@ from typing import Any
 import pint
 
 from reviewer.engine import Review
-from reviewer.findings import Finding, Severity
+from reviewer.findings import DerivedFigure, Finding, Severity
 from reviewer.units import unit_symbol
 
 FORMAT_NAME = "firstride-review"
@@ -83,6 +83,20 @@ def finding_json(finding: Finding) -> dict[str, Any]:
     }
 
 
+def _figure_json(figure: DerivedFigure) -> dict[str, Any]:
+    data: dict[str, Any] = {
+        "name": figure.name,
+        "value": quantity_json(figure.value),
+        "note": figure.note,
+    }
+    if figure.series:
+        data["series"] = [
+            {"name": name, "unit": unit, "values": list(values)}
+            for name, unit, values in figure.series
+        ]
+    return data
+
+
 def review_json(review: Review, build_data: Mapping[str, Any]) -> dict[str, Any]:
     vehicle = review.build.vehicle
     counts = {s.value: review.count(s) for s in Severity}
@@ -106,10 +120,7 @@ def review_json(review: Review, build_data: Mapping[str, Any]) -> dict[str, Any]
         "verdict": review.verdict.value,
         "counts": counts,
         "findings": [finding_json(f) for f in review.findings],
-        "figures": [
-            {"name": d.name, "value": quantity_json(d.value), "note": d.note}
-            for d in review.figures
-        ],
+        "figures": [_figure_json(d) for d in review.figures],
         "assumptions": [
             {
                 "text": a.text,

@@ -130,6 +130,14 @@ def output_problem(item: DerivedFigure | Assumption) -> str | None:
             return "a derived figure's name and note must be text"
         if type(item.order) is not int:
             return "a derived figure's order must be a whole number"
+        for entry in item.series:
+            if not (isinstance(entry, tuple) and len(entry) == 3):
+                return f"derived figure {item.name!r}: a series is (name, unit, values)"
+            name, unit, values = entry
+            if not (isinstance(name, str) and isinstance(unit, str)):
+                return f"derived figure {item.name!r}: a series' name and unit must be text"
+            if not all(type(v) is float and math.isfinite(v) for v in values):
+                return f"derived figure {item.name!r}: series {name!r} holds a non-finite value"
         problem = value_problem(item.value)
         return f"derived figure {item.name!r}: its value {problem}" if problem else None
     if not isinstance(item.text, str):

@@ -210,3 +210,5 @@ class DerivedFigure:
     value: pint.Quantity | str
     note: str = ""
     order: int = field(default=100, compare=False)
+    #: Time series behind the figure, for plots and the JSON review: (name, unit, values).
+    series: tuple[tuple[str, str, tuple[float, ...]], ...] = field(default=(), compare=False)

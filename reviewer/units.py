@@ -225,3 +225,7 @@ INDUCTANCE = Dimension("uH", "120 uH", "an inductance", 0.0, 1.0e6)
 ENERGY = Dimension("Wh", "500 Wh", "an energy", 0.0, 1.0e6)
 POWER = Dimension("W", "250 W", "a power", 0.0, 1.0e6)
 FORCE = Dimension("N", "400 N", "a force", 0.0, 100_000.0)
+DISTANCE = Dimension("km", "1.5 km", "a distance along a route", 0.0, 1000.0)
+SIGNED_GRADE = Dimension(
+    "percent", "-6 %", "a grade (rise over run, negative downhill)", -100.0, 100.0, allow_zero=True
+)

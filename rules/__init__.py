@@ -48,6 +48,9 @@ RULE_IDS = (
     "power.connectors",
     "charging.ratings",
     "mechanical.wheels",
+    # a ride, not a moment
+    "ride.heating",
+    "ride.energy",
 )
 
 

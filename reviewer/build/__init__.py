@@ -32,6 +32,7 @@ from reviewer.build.power import (
     MotorType,
 )
 from reviewer.build.power_path import Bms, Charger, Connector, ConnectorCircuit, ConnectorKind
+from reviewer.build.route import Route, RouteSegment
 from reviewer.build.vehicle import (
     Conditions,
     Enclosure,
@@ -77,6 +78,8 @@ __all__ = [
     "Regulator",
     "Rider",
     "RiderClass",
+    "Route",
+    "RouteSegment",
     "ThrottleKind",
     "Usage",
     "Vehicle",
@@ -114,6 +117,9 @@ class Build(_Model):
         description="every connector and switch in the power path; connectors = [] for none",
     )
     charger: Charger | None = None
+    route: Route | None = Field(
+        None, description="the ride the build is for; absent, the profile's reference route"
+    )
     wheels: list[Wheel] | None = Field(
         None, max_length=MAX_ITEMS, description="each wheel or tyre kind, by axle"
     )

@@ -54,6 +54,8 @@ Inductance = Annotated[pint.Quantity, _q(u.INDUCTANCE)]
 Speed = Annotated[pint.Quantity, _q(u.SPEED)]
 Acceleration = Annotated[pint.Quantity, _q(u.ACCELERATION)]
 Force = Annotated[pint.Quantity, _q(u.FORCE)]
+Distance = Annotated[pint.Quantity, _q(u.DISTANCE)]
+SignedGrade = Annotated[pint.Quantity, _q(u.SIGNED_GRADE)]
 
 
 class _Model(BaseModel):

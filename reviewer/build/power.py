@@ -16,6 +16,7 @@ from reviewer.build.fields import (
     Frequency,
     Inductance,
     Kv,
+    Mass,
     Name,
     Resistance,
     Rotation,
@@ -134,6 +135,17 @@ class Motor(_Model):
     no_load_current: Current | None = None
     rated_current: Current | None = Field(None, description="rated continuous current")
     insulation_class: InsulationClass | None = None
+    thermal_time_constant: Duration | None = Field(
+        None,
+        description="the winding's thermal time constant (its datasheet, or a heating test: "
+        "63 % of the final rise); absent, estimated from mass",
+        examples=["12 min"],
+    )
+    mass: Mass | None = Field(None, description="the motor's mass", examples=["2.8 kg"])
+    temperature_sensor: StrictBool | None = Field(
+        None,
+        description="a winding temperature sensor the controller reads and cuts current back on",
+    )
     cooling: Cooling = Cooling()
 
     @model_validator(mode="after")
@@ -272,6 +284,12 @@ class Controller(_Model):
     )
     max_input_voltage: Voltage | None = Field(
         None, description="the datasheet's highest input (pack) voltage", examples=["60 V"]
+    )
+    stall_cutoff_time: Duration | None = Field(
+        None,
+        description="the controller cuts drive after the motor stands still under current "
+        "this long (its stall protection)",
+        examples=["3 s"],
     )
     thermal_cutback: StrictBool | None = Field(
         None, description="it reduces current as it overheats (its datasheet says so)"

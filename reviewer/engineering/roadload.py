@@ -232,6 +232,18 @@ class Drive:
         force = self._drive_force(lines, ratio)
         return top_speed(force, total_mass, self.rolling_resistance, self.drag_area, bound)
 
+    def climb_speed(self, total_mass: float, grade_percent: float) -> float:
+        """Steady speed in m/s up a ``grade_percent`` grade at full throttle (0 if it stalls)."""
+        lines = self.lines()
+        bound = max(
+            ground_speed_for(line.no_load_speed, self.reduction, self.wheel_radius)
+            for line in lines
+        )
+        force = self._drive_force(lines, self.reduction)
+        return top_speed(
+            force, total_mass, self.rolling_resistance, self.drag_area, bound, grade_percent
+        )
+
     def descent_speed(self, total_mass: float, descent_percent: float) -> float:
         """Steady speed in m/s down a ``descent_percent`` grade at full throttle, where the
         drive's pull and gravity's meet the road load. Above its no-load speed a motor would

@@ -8,6 +8,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 
 import pint
+from firstride_rules.motor._stall import stall_protection
 from firstride_rules.motor._wording import Held
 from firstride_rules.motor._wording import rationale as motor_rationale
 from firstride_rules.motor._wording import remedy as motor_remedy
@@ -110,6 +111,15 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
       ``motor.blocked_cooling_factor``. Input power V I (pack nominal voltage for a held current,
       full voltage for a stall; full duty) is reported beside the copper loss: they are
       different figures, and most of the input power of a turning motor leaves as shaft work.
+
+    What ends the locked rotor (stated as the case judged)
+      With ``motors[].temperature_sensor`` (a sensor the controller cuts current back on) the
+      stall is not held for ever: pass, the sensor's trip point stated as an assumption. With
+      ``controller.stall_cutoff_time`` the stall lasts that long: from a winding already at its
+      rise limit, at the cold stall current in still air, stepped exactly over the cut-off time
+      (time constant ``motors[].thermal_time_constant``, or from ``motors[].mass``, or the
+      profile's ``ride.default_time_constant``), against the class temperature. With neither,
+      the steady state below, held for ever. The sustained climb is ``ride.heating``'s.
 
     Severities
       - stop: the winding would pass its IEC 60085 class temperature (insulation life halves for
@@ -306,6 +316,13 @@ def _check_motor(
         severity = Severity.FIX
     else:
         severity = Severity.PASS
+    measured: pint.Quantity | str | None = None if runaway else u.quantity(theta, _DEGC)
+    limit = u.quantity(grade.rise_limit_temperature, _DEGC)
+    severity, case, judged = yield from stall_protection(
+        build, motor, (r20, r_th, factor, ambient), grade, cold, severity, profile
+    )
+    if judged is not None:
+        measured, limit = judged
     remedy = None
     still = motor.cooling.fan and not motor.cooling.fan_independent
     held = Held(current, cold, held_by, loss, power, still)
@@ -316,9 +333,9 @@ def _check_motor(
     yield Finding(
         severity=severity,
         subject=name,
-        rationale=motor_rationale(load, held, theta, ambient, grade, factor),
-        measured=None if runaway else u.quantity(theta, _DEGC),
-        limit=u.quantity(grade.rise_limit_temperature, _DEGC),
+        rationale=motor_rationale(load, held, theta, ambient, grade, factor) + " " + case,
+        measured=measured,
+        limit=limit,
         remedy=remedy,
         sources=(IEC_60085, _rise_source(grade), COPPER_TEMPERATURE, THERMAL_MODEL),
     )
@@ -347,6 +364,10 @@ RULE = Rule(
         "controller.motor_current_basis",
         "controller.battery_current_limit",
         "controller.drive",
+        "controller.stall_cutoff_time",
+        "motors[].temperature_sensor",
+        "motors[].thermal_time_constant",
+        "motors[].mass",
         "battery",
         "usage.ambient_temperature",
     ),

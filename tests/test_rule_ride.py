@@ -1,0 +1,150 @@
+"""ride.heating, ride.energy and motor.cooling's stall cases: the same build passes a short
+climb and fails a long one; energy and range on every ride; a pack that sags to its cut-off
+under full power; a stall judged by what ends it."""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import pytest
+from firstride_rules.motor.cooling import RULE as COOLING
+from firstride_rules.ride.energy import RULE as ENERGY
+from firstride_rules.ride.heating import RULE as HEATING
+
+from reviewer.engineering.ride_pack import cell_open_circuit_voltage
+from reviewer.findings import Finding, Severity
+from reviewer.testing import rule_outputs, run_rule_on, variant
+
+# An invented kart: 10S2P lithium pack, one brushed motor limited to 10 A against a 6 A rating
+# (so a long climb at the limit overheats it and a short one does not), a friction brake.
+KART: dict[str, Any] = {
+    "vehicle": {"name": "test kart", "kind": "kart", "mass": "20 kg"},
+    "riders": [{"name": "Ada", "mass": "80 kg", "class": "adult"}],
+    "battery": {
+        "chemistry": "li-ion",
+        "cells_series": 10,
+        "cells_parallel": 2,
+        "cell_capacity": "3000 mAh",
+        "cell_internal_resistance": "0.03 ohm",
+    },
+    "motors": [
+        {
+            "name": "rear",
+            "type": "brushed",
+            "kv": "100 rpm/V",
+            "winding_resistance": "0.4 ohm",
+            "no_load_current": "1 A",
+            "rated_current": "6 A",
+            "insulation_class": "F",
+            "thermal_time_constant": "5 min",
+        }
+    ],
+    "controller": {"motor_current_limit": "10 A", "current_limit_kind": "hardware"},
+    "drivetrain": {
+        "motor_pulley_teeth": 12,
+        "wheel_pulley_teeth": 60,
+        "wheel_diameter": "200 mm",
+        "efficiency": "90 %",
+    },
+    "brakes": [{"kind": "friction", "acts_on": "front", "deceleration": "4 m/s^2"}],
+    "usage": {
+        "rolling_resistance": 0.01,
+        "drag_area": "1.0 m^2",
+        "ambient_temperature": "25 degC",
+    },
+}
+
+
+def hill(length: str) -> dict[str, Any]:
+    segments = [
+        {"length": "0.5 km", "grade": "0 %"},
+        {"length": length, "grade": "2 %"},
+    ]
+    return variant(KART, route={"name": "hill", "segments": segments})
+
+
+def heat(data: dict[str, Any]) -> Finding:
+    (finding,) = [f for f in run_rule_on(HEATING, data) if f.subject.startswith("winding heat")]
+    return finding
+
+
+def test_a_short_climb_passes_and_a_long_one_does_not() -> None:
+    # first-order heating (brief 12): the winding approaches its steady temperature with the
+    # time constant, so the same current is harmless for a minute and too much for half an hour
+    short, long = heat(hill("0.2 km")), heat(hill("8 km"))
+    assert short.severity is Severity.PASS
+    assert long.severity in (Severity.FIX, Severity.STOP)
+    assert long.measured.m_as("degC") > short.measured.m_as("degC")
+    assert "rise limit after" in long.rationale  # the time at full load before the limit
+    assert long.remedy and "climb" in long.remedy
+
+
+def test_the_peak_is_in_the_json_series() -> None:
+    _, figures, _ = rule_outputs(HEATING, hill("1 km"))
+    (peak,) = [f for f in figures if f.name.startswith("peak winding temperature")]
+    series = {name: values for name, _, values in peak.series}
+    assert set(series) >= {"time", "speed", "motor current", "winding temperature", "pack voltage"}
+    assert max(series["winding temperature"]) == pytest.approx(peak.value.m_as("degC"))
+    assert len({len(v) for v in series.values()}) == 1
+
+
+def test_energy_and_range_on_every_ride() -> None:
+    findings, figures, _ = rule_outputs(ENERGY, hill("1 km"))
+    names = {f.name for f in figures}
+    assert {"energy use, rider 'Ada'", "range to the reserve, rider 'Ada'"} <= names
+    (use,) = [f for f in figures if f.name == "energy use, rider 'Ada'"]
+    # a climb costs at least its potential energy: m g h / 3600 Wh over the route's length
+    height = 1000 * 0.06 / math.sqrt(1 + 0.06**2)
+    assert use.value.m_as("Wh/km") >= 100 * 9.80665 * height / 3600 / 1.5
+    assert {f.severity for f in findings} == {Severity.PASS}
+
+
+def test_a_pack_that_sags_to_its_cutoff_under_full_power() -> None:
+    # Ohm's law on the pack (Linden, from memory): V = OCV(s) - I R. One string of 0.2 ohm cells
+    # is 2 ohm; at a 10 A battery limit the 30 V cut-off is reached where OCV = 50 V... above
+    # full charge, so at every state of charge: a cut at speed
+    weak = variant(
+        KART,
+        battery__cells_parallel=1,
+        battery__cell_internal_resistance="0.2 ohm",
+        controller__battery_current_limit="10 A",
+    )
+    findings = {f.subject: f for f in run_rule_on(ENERGY, weak)}
+    sag = findings["pack voltage at full power"]
+    assert sag.severity is Severity.FIX  # a friction brake is fitted
+    assert sag.measured.m_as("percent") == pytest.approx(100.0)
+    electric = variant(weak, brakes=[{"kind": "regenerative", "acts_on": "motor"}])
+    electric["controller"]["regen"] = True
+    electric["controller"]["regen_current_limit"] = "2 A"
+    only = {f.subject: f for f in run_rule_on(ENERGY, electric)}
+    assert only["pack voltage at full power"].severity is Severity.STOP
+    # a stiffer pack: 0.03 ohm cells, 2 strings, 0.15 ohm: 1.5 V of sag, reached only where the
+    # open-circuit voltage is within 1.5 V of the cut-off
+    stiff = {f.subject: f for f in run_rule_on(ENERGY, variant(KART))}
+    state = stiff["pack voltage at full power"].measured.m_as("percent") / 100
+    ocv = 10 * cell_open_circuit_voltage("li-ion", state)
+    assert ocv - 10 * 0.15 == pytest.approx(30.0, abs=0.01)
+
+
+def cooling(**changes: Any) -> Finding:
+    (finding,) = [f for f in run_rule_on(COOLING, variant(KART, **changes))]
+    return finding
+
+
+def test_the_stall_case_depends_on_what_ends_it() -> None:
+    # held for ever in still air: the steady state of motor.cooling (IEC 60034-1 rise limits)
+    forever = cooling()
+    assert forever.severity is not Severity.PASS
+    assert "held for ever" in forever.rationale
+    # a 3 s stall cut-off from a winding at its 145 degC rise limit: the exact first-order step
+    # (brief 12) at 10 A over a 5 min time constant stays far below class F's 155 degC
+    short = cooling(controller__stall_cutoff_time="3 s")
+    assert short.severity is Severity.PASS
+    assert "cuts a stall after 3 s" in short.rationale
+    assert short.limit.m_as("degC") == pytest.approx(155.0)
+    # a cut-off long enough for the winding to pass its class is a stop
+    slow = cooling(controller__stall_cutoff_time="30 min")
+    assert slow.severity is Severity.STOP
+    sensed = cooling(motors=[{**KART["motors"][0], "temperature_sensor": True}])
+    assert sensed.severity is Severity.PASS and "sensor" in sensed.rationale
