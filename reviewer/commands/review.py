@@ -41,9 +41,10 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     )
     parser.add_argument(
         "--format",
-        choices=["md", "html", "json"],
+        choices=["md", "html", "json", "sarif"],
         default="md",
-        help="md (default; the form you sign), html (one self-contained page), json",
+        help="md (default; the form you sign), html (one self-contained page), json, "
+        "sarif (SARIF 2.1.0 for CI checkers; one build file only)",
     )
     parser.add_argument("--waivers", help="a waivers file (TOML) of accepted findings")
     parser.add_argument(
@@ -77,6 +78,12 @@ def _jobs(text: str) -> int:
 
 def run(args: argparse.Namespace) -> int:
     if len(args.build) > 1 or Path(args.build[0]).is_dir():
+        if args.format == "sarif":
+            from reviewer.errors import InputError
+
+            raise InputError(
+                "--format", "(usage)", "md, html or json for a fleet; sarif is for one build file"
+            )
         from reviewer.commands.review_fleet import run_fleet
 
         return run_fleet(args)
@@ -96,7 +103,12 @@ def run(args: argparse.Namespace) -> int:
         for line in errors.lines():
             print(f"firstride: {line}", file=sys.stderr)
         return EXIT_INPUT
-    text = render_review(result, args.format)
+    build_text = None
+    if args.format == "sarif":  # the same bytes as reviewed, for line and column positions
+        from reviewer.sarif import read_build_text
+
+        build_text = read_build_text(args.build[0], result.build_fingerprint)
+    text = render_review(result, args.format, build_text)
     if args.output:
         from reviewer.output import write_whole
 
