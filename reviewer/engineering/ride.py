@@ -214,6 +214,7 @@ def simulate(
     start_speed_ms: float = 0.0,
     voltage_step: float = 0.05,
     temperature_step: float = 5.0,
+    cruise_dt: float | None = None,
 ) -> RideResult:
     """Ride ``segments`` in order with ``total_mass`` kg (vehicle and rider) and step ``dt`` s.
 
@@ -238,6 +239,9 @@ def simulate(
         raise ValueError("dt, mass and the steps must be positive, wiring resistance >= 0")
     if not segments:
         raise ValueError("a route needs at least one segment")
+    cruise_step = dt if cruise_dt is None else cruise_dt
+    if not cruise_step > 0:
+        raise ValueError("the cruise step must be positive")
 
     result = RideResult(cutoff_v=pack.cutoff_voltage if cutoff_voltage is None else cutoff_voltage)
     radius, ratio, eff = drive.wheel_radius, drive.reduction, drive.efficiency
@@ -296,7 +300,7 @@ def simulate(
                 omega = v / radius * ratio
                 load = road_load_force(total_mass, v, crr, cda, leg.grade)
                 currents = _cruise_currents(lines, load * radius / (eff * ratio), omega)
-                step = min(dt, remaining / v)
+                step = min(cruise_step, remaining / v)
                 distance = v * step
                 if distance > remaining or remaining - distance < _EPS_M:
                     distance = remaining

@@ -20,6 +20,7 @@ SI floats throughout: m/s, m/s^2, kg, m, s.
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -33,7 +34,7 @@ from reviewer.engineering.stopping import grade_percent_to_angle
 from reviewer.profile import Profile
 from reviewer.units import in_unit
 
-_STEPS = 400  # Simpson intervals over speed: the integrand is smooth but for the regen fade
+_STEPS = 64  # Simpson intervals over each smooth piece of the speed range
 
 
 @dataclass(frozen=True)
@@ -95,9 +96,14 @@ def stopping_distance(
     speed: float,
     reaction_time: float,
     descent_percent: float = 0.0,
+    *,
+    constant: bool = False,
+    kinks: tuple[float, ...] = (),
 ) -> float:
     """Distance in m from the moment a hazard appears to standstill (``math.inf`` if the net
-    deceleration is not positive all the way down)."""
+    deceleration is not positive all the way down). ``constant``: the deceleration does not
+    depend on speed (v^2 / 2a, exact); else Simpson's rule over speed, split at ``kinks`` (speeds
+    where it jumps, a regenerative brake's fade)."""
     pull = STANDARD_GRAVITY * math.sin(grade_percent_to_angle(descent_percent))
     gain = max(pull, 0.0)  # a climb's help during the reaction is left out
     braking_from = speed + gain * reaction_time
@@ -108,16 +114,31 @@ def stopping_distance(
 
     if net(0.0) <= 0.0:
         return math.inf
-    step = braking_from / _STEPS
+    if constant:
+        return reaction + braking_from * braking_from / (2.0 * net(0.0))
+    edges = [0.0, *sorted(k for k in kinks if 0.0 < k < braking_from), braking_from]
+    total = 0.0
+    for low, high in itertools.pairwise(edges):
+        # just inside each piece, so a jump at an edge is taken from the side it belongs to
+        piece = _simpson(net, low + 1e-9 * (high - low), high - 1e-9 * (high - low))
+        if math.isinf(piece):
+            return math.inf
+        total += piece
+    return reaction + total
+
+
+def _simpson(net: Callable[[float], float], low: float, high: float) -> float:
+    """Integral of v / net(v) dv from ``low`` to ``high``; ``math.inf`` if net is not positive."""
+    step = (high - low) / _STEPS
     total = 0.0
     for i in range(_STEPS + 1):
-        v = i * step
+        v = low + i * step
         a = net(v)
         if a <= 0.0:
             return math.inf
         weight = 1.0 if i in (0, _STEPS) else (4.0 if i % 2 else 2.0)
         total += weight * v / a
-    return reaction + total * step / 3.0
+    return total * step / 3.0
 
 
 def reference_distance(speed: float, reaction_time: float, deceleration: float) -> float:

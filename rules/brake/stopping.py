@@ -248,8 +248,16 @@ def _case(
         needed *= float(fraction.value)  # type: ignore[arg-type]
     dry = grip_caps(profile, float(profile.limit("brake.tyre_friction.dry").value), percent)  # type: ignore[arg-type]
     wet = grip_caps(profile, float(profile.limit("brake.tyre_friction.wet").value), percent)  # type: ignore[arg-type]
-    distance = stopping_distance(lambda v: combined(effects, dry, v), speed, reaction, percent)
-    wet_distance = stopping_distance(lambda v: combined(effects, wet, v), speed, reaction, percent)
+    shape = {
+        "constant": all(not e.brake.kind.electric for e in effects),
+        "kinks": (in_unit(profile.limit("brake.regenerative_fade_speed").quantity, "m/s"),),
+    }
+    distance = stopping_distance(
+        lambda v: combined(effects, dry, v), speed, reaction, percent, **shape
+    )
+    wet_distance = stopping_distance(
+        lambda v: combined(effects, wet, v), speed, reaction, percent, **shape
+    )
     reference = reference_distance(speed, reaction, needed)
     with_what = "every brake" if which == "all" else "the electric brake lost"
     place = "on the flat" if where == "flat" else f"down the {f(percent)} % descent"

@@ -101,8 +101,9 @@ def _simulate(build: Build, profile: Profile) -> Ride:
                     segments,
                     tuple(windings),
                     heat_pack,
-                    float(profile.limit("ride.time_step").quantity.m_as("s")),
+                    in_unit(profile.limit("ride.time_step").quantity, "s"),
                     cutoff_voltage=cutoff,
+                    cruise_dt=in_unit(profile.limit("ride.cruise_time_step").quantity, "s"),
                 )
             )
     return Ride(

@@ -115,7 +115,7 @@ def _with_regen(
                 low = middle
         return 0.5 * (low + high)
 
-    step = 0.05
+    step = 0.25  # m/s: a scan, then bisection at each crossing
     v = regen.fade_speed + 1e-6
     previous = surplus(v)
     held = math.inf if previous <= 0.0 else regen.fade_speed
