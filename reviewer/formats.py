@@ -14,9 +14,15 @@ if TYPE_CHECKING:
 FORMS = ("md", "html", "json", "sarif")
 
 
-def render_review(result: Review, form: str, build_text: str | None = None) -> str:
+def render_review(
+    result: Review,
+    form: str,
+    build_text: str | None = None,
+    chart_links: list[tuple[str, str]] | None = None,
+) -> str:
     """The review in the asked-for form; HTML is rendered from the same Markdown. SARIF points
-    into ``build_text`` (without it, every result is at line 1)."""
+    into ``build_text`` (without it, every result is at line 1). ``chart_links``: (title, link)
+    of charts written beside a Markdown review (``--plots DIR``)."""
     if form == "sarif":
         from reviewer.sarif import render_sarif
 
@@ -27,7 +33,7 @@ def render_review(result: Review, form: str, build_text: str | None = None) -> s
         from reviewer.export import render_json
 
         return render_json(result, result.build_data)
-    markdown = render_markdown(result)
+    markdown = render_markdown(result, chart_links if form == "md" else None)
     if form == "html":
         from reviewer.html import render_html
 

@@ -72,6 +72,20 @@ def page_from_markdown(markdown: str, *, title: str) -> str:
 
 def render_html(review: Review, markdown: str) -> str:
     # markdown-it output with raw HTML disabled, with the review's own severity words marked
-    body = Markup(_mark_severities(markdown_to_html(markdown)))
+    html = _mark_severities(markdown_to_html(markdown))
+    from reviewer.charts import review_charts
+    from reviewer.plots import INSTALL_HINT, PlotsUnavailable
+
+    try:
+        charts = review_charts(review)
+    except PlotsUnavailable:
+        charts, missing = [], INSTALL_HINT
+    else:
+        missing = None
+    # the charts go where the derived figures end: before the assumptions
+    marker = "<h2>Assumptions and defaults used</h2>"
+    head, found, tail = html.partition(marker)
+    section = _environment().get_template("charts.html.j2").render(charts=charts, missing=missing)
+    body = Markup(head + section + found + tail if found else html + section)
     template = _environment().get_template("review.html.j2")
     return template.render(review=review, body=body) + "\n"

@@ -12,6 +12,7 @@ from functools import cache
 from importlib import resources
 from importlib.resources.abc import Traversable
 from typing import Any
+from urllib.parse import quote
 
 import jinja2
 
@@ -202,7 +203,7 @@ def environment() -> jinja2.Environment:
 _ACT_ORDER = (Severity.STOP, Severity.FIX, Severity.ADVISE)
 
 
-def render_markdown(review: Review) -> str:
+def render_markdown(review: Review, chart_links: list[tuple[str, str]] | None = None) -> str:
     template = environment().get_template("review.md.j2")
     findings = list(review.findings)
     counts = [(s, review.count(s)) for s in SEVERITY_ORDER]
@@ -216,6 +217,7 @@ def render_markdown(review: Review) -> str:
         build=review.build,
         counts=counts,
         refs=refs,
+        charts=[(title, Raw(quote(link))) for title, link in chart_links or ()],
         acted=[(f, Shown(f, refs)) for f in acted],
         passed=[(f, Shown(f, refs)) for f in passed],
         unassessed=[(f, Shown(f, refs)) for f in unassessed],

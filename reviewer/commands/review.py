@@ -58,6 +58,12 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help="for a fleet: review in N processes (default 1; 0 = one per core)",
     )
     parser.add_argument(
+        "--plots",
+        metavar="DIR",
+        help="write the review's charts as SVG files into DIR and link them from the Markdown "
+        "review (needs the plots extra); an HTML review embeds them anyway",
+    )
+    parser.add_argument(
         "-q",
         "--quiet",
         action="store_true",
@@ -108,7 +114,8 @@ def run(args: argparse.Namespace) -> int:
         from reviewer.sarif import read_build_text
 
         build_text = read_build_text(args.build[0], result.build_fingerprint)
-    text = render_review(result, args.format, build_text)
+    links = _write_charts(args, result) if args.plots else None
+    text = render_review(result, args.format, build_text, links)
     if args.output:
         from reviewer.output import write_whole
 
@@ -120,6 +127,32 @@ def run(args: argparse.Namespace) -> int:
 
     report(result, sys.stderr, quiet=args.quiet)
     return exit_status(result, args.fail_on)
+
+
+def _write_charts(args: argparse.Namespace, result: Review) -> list[tuple[str, str]]:
+    """Write the charts into ``--plots DIR`` (each a whole, guarded write) and return each
+    one's title and its link as the review should write it: relative to the review's folder."""
+    import os
+
+    from reviewer.charts import review_charts
+    from reviewer.errors import InputError
+    from reviewer.output import write_whole
+    from reviewer.plots import INSTALL_HINT, PlotsUnavailable
+
+    try:
+        charts = review_charts(result)
+    except PlotsUnavailable:
+        raise InputError("--plots", "(usage)", f"charts need matplotlib: {INSTALL_HINT}") from None
+    folder = Path(args.plots)
+    folder.mkdir(parents=True, exist_ok=True)
+    base = Path(args.output).parent if args.output else Path()
+    read = [*args.build, args.profile, args.waivers, args.since, *args.rule_files]
+    links = []
+    for chart in charts:
+        path = folder / chart.file
+        write_whole(path, chart.svg, inputs=read)
+        links.append((chart.title, Path(os.path.relpath(path, base)).as_posix()))
+    return links
 
 
 def exit_status(result: Review, fail_on: str) -> int:
