@@ -294,7 +294,7 @@ def test_low_voltage_cutoff_of_a_seven_cell_pack(setting, bms, severity):
     assert finding.limit.m_as("V") == pytest.approx(21.0)
     assert finding.comparison is Comparison.AT_LEAST
     if severity is not Severity.PASS:
-        assert finding.remedy == "set the cut-off at or above 21 V (7 x 3 V)"
+        assert finding.remedy == "set battery.low_voltage_cutoff at or above 21 V (7 x 3 V)"
 
 
 def test_lifepo4_cutoff_is_two_and_a_half_volts_per_cell():

@@ -137,7 +137,7 @@ def test_hot_switch_remedies_each_pass_when_rerun() -> None:
     )
     assert finding.severity is Severity.STOP
     sink = number_in(finding.remedy, r"heatsink of at most ([\d.]+) K/W")
-    amps = number_in(finding.remedy, r"current limit at or below ([\d.]+) A")
+    amps = number_in(finding.remedy, r"motor_current_limit at or below ([\d.]+) A")
     milliohm = number_in(finding.remedy, r"switch of at most ([\d.]+) mΩ")
     reruns = [
         build(switch_thermal_resistance_sink_air=f"{sink} K/W"),

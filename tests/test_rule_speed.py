@@ -149,7 +149,7 @@ def test_kinetic_energy_and_stopping_distance_are_reported() -> None:
     speed = kmh(finding_for(findings, "Ada")) / 3.6
     by_name = {f.name: f.value for f in figures}
     energy = by_name["kinetic energy at top speed, rider 'Ada'"].m_as("J")
-    distance = by_name["stopping distance from top speed, rider 'Ada'"].m_as("m")
+    distance = by_name["braking distance from top speed, rider 'Ada'"].m_as("m")
     assert energy == pytest.approx(0.5 * 100.0 * speed**2)
     assert distance == pytest.approx(speed**2 / 6.0)
 

@@ -65,7 +65,7 @@ def _battery_side(build: Build, profile: Profile, demand: float) -> list[BudgetI
         ampacity = figures.wire_ampacity(wire, ambient)
         rating = None if ampacity is None else ampacity.current
         items.append(BudgetItem(f"wire '{wire.name}'", demand, rating))
-    for connector in build.connectors:
+    for connector in build.connectors or ():
         if connector.circuit is ConnectorCircuit.BATTERY:
             rating = connector.current_rating
             items.append(
@@ -88,7 +88,7 @@ def _motor_side(build: Build) -> list[BudgetItem]:
         point = figures.stall_point(build, motor.name)
         if point is not None:
             carried[motor.name] = figures.phase_conductor_current(build, motor, point.motor_current)
-    for connector in build.connectors:
+    for connector in build.connectors or ():
         if connector.circuit not in (ConnectorCircuit.MOTOR, ConnectorCircuit.PHASE):
             continue
         motor = next((m for m in build.motors if connector.motor in (None, m.name)), None)

@@ -131,7 +131,10 @@ def _cutoff_finding(battery: Battery, cell: CellVoltages) -> Finding:
     series = battery.cells_series
     required = cell.cutoff * series
     floor = cell.floor * series
-    remedy = f"set the cut-off at or above {_n(required)} V ({series} x {_n(cell.cutoff)} V)"
+    remedy = (
+        f"set battery.low_voltage_cutoff at or above {_n(required)} V "
+        f"({series} x {_n(cell.cutoff)} V)"
+    )
     setting = battery.low_voltage_cutoff
     if setting is None:
         if _has_bms(battery):

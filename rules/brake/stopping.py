@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
+from dataclasses import replace
 
 from firstride_rules._shared.wording import drive_model
 from firstride_rules.brake._capability import (
@@ -227,6 +228,16 @@ def _rider(
             yield from _case(
                 profile, rider, independent, speed, percent, where, reaction, "lost", build
             )
+        elif not electric:  # no electric brake to lose: the same stop, said so
+            for item in _case(
+                profile, rider, effects, speed, percent, where, reaction, "all", build
+            ):
+                if isinstance(item, DerivedFigure):
+                    yield replace(
+                        item,
+                        name=item.name.replace("every brake", "the electric brake lost"),
+                        note=item.note + "; no electric brake is fitted, so the same stop",
+                    )
 
 
 def _case(

@@ -114,7 +114,10 @@ def _voltage(battery: Battery, cell: CellVoltages, profile: Profile) -> Finding:
     elif volts < full - band - _EPSILON:
         severity, bound, comparison = Severity.ADVISE, full - band, Comparison.AT_LEAST
         text += " The pack never charges fully, which costs range but is not a hazard."
-    remedy = f"use a {_n(full)} V charger ({series} x {_n(cell.full)} V)"
+    remedy = (
+        f"use a {_n(full)} V charger ({series} x {_n(cell.full)} V) and set "
+        "battery.charger_voltage to it"
+    )
     return Finding(
         severity,
         subject,
@@ -163,7 +166,9 @@ def _cell_current(build: Build, battery: Battery) -> Finding:
         measured=quantity(each, "A"),
         limit=quantity(rating, "A"),
         comparison=Comparison.AT_MOST,
-        remedy=f"use a charger of at most {_n(rating * strings)} A" if over else None,
+        remedy=f"use a charger of at most {_n(rating * strings)} A (charger.current)"
+        if over
+        else None,
         sources=(RATINGS,),
     )
 

@@ -354,7 +354,8 @@ def _rating_findings(build: Build) -> Iterator[Finding]:
             measured=u.quantity(limit, _A),
             limit=u.quantity(rated, _A),
             remedy=(
-                f"set the current limit at or below {f(rated)} A, or hold it above that only for "
+                f"set controller.motor_current_limit at or below {f(rated)} A, or hold it above "
+                "that only for "
                 "short bursts the motor.cooling check allows"
                 if over
                 else None

@@ -324,7 +324,7 @@ def _remedy(switch: _Switch, load: _Duty, power: float, p_sw: float) -> str:
         switch.frequency,
     )
     if load.limited:
-        options.append(f"set the current limit at or below {floor_tenth(amps):g} A")
+        options.append(f"set controller.motor_current_limit at or below {floor_tenth(amps):g} A")
     else:
         options.append(
             f"fit a current limit at or below {floor_tenth(amps):g} A (without one the switch "

@@ -127,7 +127,9 @@ def _load(index: int, wheel: Wheel, load: float, total: float, limits: tuple) ->
         measured=u.quantity(load, _KG),
         limit=u.quantity(rating, _KG),
         comparison=Comparison.AT_MOST,
-        remedy=f"use a wheel or tyre rated for at least {f(load)} kg" if over else None,
+        remedy=f"use a wheel or tyre rated for at least {f(load)} kg (wheels[{index}].rated_load)"
+        if over
+        else None,
         sources=(RATINGS, share.source, factor.source),
     )
 
@@ -166,7 +168,10 @@ def _speed(
         measured=u.quantity(kmh, _KMH),
         limit=u.quantity(rating, _KMH),
         comparison=Comparison.AT_MOST,
-        remedy=f"use a wheel or tyre rated for at least {f(kmh)} km/h" if over else None,
+        remedy=f"use a wheel or tyre rated for at least {f(kmh)} km/h "
+        f"(wheels[{index}].speed_rating)"
+        if over
+        else None,
         missing=lacking,
         sources=(RATINGS,),
     )

@@ -132,7 +132,8 @@ def _current(build: Build, index: int, connector: Connector) -> Iterator[Finding
         measured=u.quantity(amps, _A),
         limit=u.quantity(rating, _A),
         comparison=Comparison.AT_MOST,
-        remedy=f"use a {connector.kind.value} rated for at least {f(amps)} A continuous"
+        remedy=f"use a {connector.kind.value} rated for at least {f(amps)} A continuous "
+        f"(connectors[{index}].current_rating)"
         if over
         else None,
         sources=(RATINGS, HEATING)
@@ -180,7 +181,10 @@ def _voltage(build: Build, index: int, connector: Connector, full: float | None)
         measured=u.quantity(volts, _V),
         limit=u.quantity(rating, _V),
         comparison=Comparison.AT_MOST,
-        remedy=f"use a {connector.kind.value} rated for at least {f(volts)} V DC" if over else None,
+        remedy=f"use a {connector.kind.value} rated for at least {f(volts)} V DC "
+        f"(connectors[{index}].voltage_rating)"
+        if over
+        else None,
         sources=(RATINGS, HEATING),
     )
 

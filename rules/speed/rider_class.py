@@ -174,9 +174,9 @@ def _check_rider(
         order=34,
     )
     yield DerivedFigure(
-        f"stopping distance from top speed, {subject}",
+        f"braking distance from top speed, {subject}",
         u.quantity(distance, _M),
-        note=f"at {f(decel)} m/s²",
+        note=f"at {f(decel)} m/s², no reaction time (brake.stopping gives the whole stop)",
         order=35,
     )
 
