@@ -8,4 +8,4 @@ EXIT_FINDINGS = 1
 EXIT_INPUT = 2
 
 #: Module names under reviewer.commands, in the order ``firstride --help`` lists them.
-VERBS = ("review", "sweep", "rules", "schema", "keygen", "sign", "verify", "new-pack")
+VERBS = ("review", "sweep", "rules", "schema", "keygen", "sign", "verify", "new-pack", "serve")
