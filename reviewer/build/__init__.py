@@ -95,19 +95,33 @@ __all__ = [
 class Build(_Model):
     """One vehicle, as its builder describes it."""
 
-    vehicle: Vehicle
-    riders: list[Rider] = Field(default_factory=list, max_length=MAX_RIDERS)
-    battery: Battery | None = None
-    motors: list[Motor] = Field(default_factory=list, max_length=8)
-    drivetrain: Drivetrain | None = None
-    controller: Controller | None = None
+    vehicle: Vehicle = Field(description="the vehicle: its name, kind and mass")
+    riders: list[Rider] = Field(
+        default_factory=list,
+        max_length=MAX_RIDERS,
+        description="everyone who rides it, one [[riders]] table each",
+    )
+    battery: Battery | None = Field(
+        None, description="the traction pack: its cells and their datasheet ratings"
+    )
+    motors: list[Motor] = Field(
+        default_factory=list, max_length=8, description="each motor, one [[motors]] table each"
+    )
+    drivetrain: Drivetrain | None = Field(
+        None, description="how the motor turns the wheel: pulleys or ratio, wheel diameter"
+    )
+    controller: Controller | None = Field(
+        None, description="the motor controller: its current limits and datasheet ratings"
+    )
     brakes: list[Brake] | None = Field(
         None,
         max_length=MAX_ITEMS,
         description="every brake, one [[brakes]] table each; brakes = [] declares none",
     )
     brake: SkipJsonSchema[dict[str, object] | None] = Field(None, exclude=True)
-    logic: Logic | None = None
+    logic: Logic | None = Field(
+        None, description="the logic board that reads the controls: its pins, loads, regulator"
+    )
     control: Control | None = Field(
         None, description="the throttle and what stops the drive when its command goes wrong"
     )
@@ -116,17 +130,29 @@ class Build(_Model):
         max_length=MAX_ITEMS,
         description="every connector and switch in the power path; connectors = [] for none",
     )
-    charger: Charger | None = None
+    charger: Charger | None = Field(None, description="the charger and its charge port")
     route: Route | None = Field(
         None, description="the ride the build is for; absent, the profile's reference route"
     )
     wheels: list[Wheel] | None = Field(
         None, max_length=MAX_ITEMS, description="each wheel or tyre kind, by axle"
     )
-    wires: list[Wire] = Field(default_factory=list, max_length=MAX_ITEMS)
-    fuses: list[Fuse] = Field(default_factory=list, max_length=MAX_ITEMS)
-    enclosure: Enclosure | None = None
-    usage: Usage = Usage()
+    wires: list[Wire] = Field(
+        default_factory=list,
+        max_length=MAX_ITEMS,
+        description="each wire of the power and logic circuits, one [[wires]] table each",
+    )
+    fuses: list[Fuse] = Field(
+        default_factory=list,
+        max_length=MAX_ITEMS,
+        description="each fuse or breaker, one [[fuses]] table each",
+    )
+    enclosure: Enclosure | None = Field(
+        None, description="how the electronics and the pack are housed: IP codes, the pack's case"
+    )
+    usage: Usage = Field(
+        Usage(), description="where it is ridden: wet or dry, heat, hills, rolling and air drag"
+    )
     extensions: dict[Name, dict[str, object]] = Field(
         default_factory=dict,
         max_length=MAX_ITEMS,

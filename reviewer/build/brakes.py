@@ -76,7 +76,7 @@ class Brake(_Model):
         examples=["6.5 m"],
     )
     tested_from_speed: Speed | None = Field(
-        None, description="the speed that stop was measured from", examples=["25 km/h"]
+        None, description="the speed that stop was measured from", examples=["24 km/h"]
     )
     tested_with_mass: Mass | None = Field(
         None,
@@ -84,10 +84,12 @@ class Brake(_Model):
         examples=["95 kg"],
     )
     relay_contact_rating: Current | None = Field(
-        None, description="a dynamic brake's relay: DC rating of the contacts", examples=["30 A"]
+        None, description="a dynamic brake's relay: DC rating of the contacts", examples=["40 A"]
     )
     relay_contact_voltage: Voltage | None = Field(
-        None, description="a dynamic brake's relay: DC voltage rating of the contacts"
+        None,
+        description="a dynamic brake's relay: DC voltage rating of the contacts",
+        examples=["48 V"],
     )
     coil_current: SmallCurrent | None = Field(
         None, description="a dynamic brake's relay: coil current", examples=["60 mA"]

@@ -16,7 +16,9 @@ class ThrottleKind(enum.Enum):
 
 class Control(_Model):
     throttle: ThrottleKind = Field(
-        description="hall, potentiometer, wireless-remote or pedal-sensor"
+        description="what the rider commands with: hall (a hall-sensor thumb or twist "
+        "throttle), potentiometer (a resistive one), wireless-remote (a hand-held radio "
+        "remote) or pedal-sensor (a pedal-assist cadence or torque sensor)"
     )
     power_up_inhibit: StrictBool | None = Field(
         None,

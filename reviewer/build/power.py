@@ -41,8 +41,12 @@ class Chemistry(enum.Enum):
 
 
 class Battery(_Model):
-    chemistry: Chemistry
-    cells_series: StrictInt = Field(ge=1, le=40)
+    chemistry: Chemistry = Field(
+        description="li-ion, lipo (polymer pouch), lifepo4 (iron phosphate), nimh or lead-acid"
+    )
+    cells_series: StrictInt = Field(
+        ge=1, le=40, description="cells in series (the 10 of a 10S3P pack)", examples=[10]
+    )
     cells_parallel: StrictInt | None = Field(
         None,
         ge=1,
@@ -52,20 +56,30 @@ class Battery(_Model):
         "stall and fault current)",
         examples=[3],
     )
-    cell_capacity: Charge | None = None
-    cell_continuous_current: Current | None = None
-    cell_c_rate: StrictFloat | None = Field(None, gt=0, le=500, description="continuous C-rating")
-    cell_internal_resistance: Resistance | None = None
+    cell_capacity: Charge | None = Field(
+        None, description="one cell's rated capacity, from its datasheet", examples=["3500 mAh"]
+    )
+    cell_continuous_current: Current | None = Field(
+        None, description="one cell's datasheet continuous discharge current", examples=["12 A"]
+    )
+    cell_c_rate: StrictFloat | None = Field(
+        None, gt=0, le=500, description="continuous C-rating: 5.0 for 5C", examples=[5.0]
+    )
+    cell_internal_resistance: Resistance | None = Field(
+        None,
+        description="one cell's internal resistance, from its datasheet",
+        examples=["0.025 ohm"],
+    )
     cell_max_charge_current: Current | None = Field(
         None,
         description="the cell datasheet's largest charge current (regenerative braking charges "
         "the pack too)",
         examples=["4 A"],
     )
-    bms: Bms | None = Field(
-        None, description="the battery management system: its ratings, or fitted = false"
+    bms: Bms | None = Field(None, description="the pack's BMS: its ratings, or fitted = false")
+    low_voltage_cutoff: Voltage | None = Field(
+        None, description="pack-level cut-off setting (BMS or controller)", examples=["30 V"]
     )
-    low_voltage_cutoff: Voltage | None = Field(None, description="pack-level cut-off setting")
     charger_voltage: Voltage | None = Field(
         None, description="the charger's end-of-charge voltage", examples=["42 V"]
     )
@@ -101,40 +115,58 @@ class Cooling(_Model):
         description="the fan has its own drive and turns while the motor stands still "
         "(IC416); a shaft fan (the default) moves no air at a stall",
     )
-    inlet_blocked: StrictBool = False
-    outlet_blocked: StrictBool = False
+    inlet_blocked: StrictBool = Field(False, description="a housing or deck covers its air inlet")
+    outlet_blocked: StrictBool = Field(False, description="a housing covers its air outlet")
     blocked_cooling_factor: StrictFloat | None = Field(
         None,
         gt=0,
         le=1,
         description="heat-loss coefficient with blocked airflow over the open figure; "
         "default comes from the profile",
+        examples=[0.6],
     )
 
 
 class Motor(_Model):
-    name: Name = "motor"
-    type: MotorType
-    kv: Kv | None = None
-    no_load_speed: Rotation | None = Field(None, description="at rated_voltage, no load")
-    rated_voltage: Voltage | None = None
+    name: Name = Field("motor", description="what findings call it", examples=["rear"])
+    type: MotorType = Field(description="brushed (two leads) or brushless (three phase leads)")
+    kv: Kv | None = Field(
+        None, description="datasheet speed constant, no-load rpm per volt", examples=["150 rpm/V"]
+    )
+    no_load_speed: Rotation | None = Field(
+        None, description="at rated_voltage, no load", examples=["3200 rpm"]
+    )
+    rated_voltage: Voltage | None = Field(
+        None, description="the datasheet's rated voltage", examples=["36 V"]
+    )
     winding_resistance: Resistance | None = Field(
         None,
         description="terminal to terminal at 20 degC: for a brushless motor line to line "
         "(twice the phase resistance of a star winding)",
+        examples=["0.28 ohm"],
     )
     winding_inductance: Inductance | None = Field(
         None,
         description="terminal to terminal (line to line for a brushless motor), from the "
         "motor's datasheet or an LCR meter",
-        examples=["120 uH"],
+        examples=["85 uH"],
     )
     pole_pairs: StrictInt | None = Field(
-        None, ge=1, le=100, description="magnet pole pairs (a brushless motor's poles / 2)"
+        None,
+        ge=1,
+        le=100,
+        description="magnet pole pairs (a brushless motor's poles / 2)",
+        examples=[7],
     )
-    no_load_current: Current | None = None
-    rated_current: Current | None = Field(None, description="rated continuous current")
-    insulation_class: InsulationClass | None = None
+    no_load_current: Current | None = Field(
+        None, description="the datasheet's current at rated_voltage, no load", examples=["1.2 A"]
+    )
+    rated_current: Current | None = Field(
+        None, description="rated continuous current (datasheet)", examples=["13 A"]
+    )
+    insulation_class: InsulationClass | None = Field(
+        None, description="winding class, IEC 60085: A 105, E 120, B 130, F 155, H 180, N 200 degC"
+    )
     thermal_time_constant: Duration | None = Field(
         None,
         description="the winding's thermal time constant (its datasheet, or a heating test: "
@@ -146,7 +178,7 @@ class Motor(_Model):
         None,
         description="a winding temperature sensor the controller reads and cuts current back on",
     )
-    cooling: Cooling = Cooling()
+    cooling: Cooling = Field(Cooling(), description="its fan and what blocks its air")
 
     @model_validator(mode="after")
     def _speed_constant(self) -> Self:
@@ -184,16 +216,22 @@ class Motor(_Model):
 
 
 class Drivetrain(_Model):
-    motor_pulley_teeth: StrictInt | None = Field(None, ge=5, le=200)
-    wheel_pulley_teeth: StrictInt | None = Field(None, ge=5, le=400)
+    motor_pulley_teeth: StrictInt | None = Field(
+        None, ge=5, le=200, description="teeth of the motor's pulley or sprocket", examples=[15]
+    )
+    wheel_pulley_teeth: StrictInt | None = Field(
+        None, ge=5, le=400, description="teeth of the wheel's pulley or sprocket", examples=[44]
+    )
     ratio: StrictFloat | None = Field(
-        None, gt=0.05, le=100, description="motor turns per wheel turn"
+        None, gt=0.05, le=100, description="motor turns per wheel turn", examples=[2.9]
     )
-    wheel_diameter: Diameter | None = None
-    efficiency: Fraction | None = None
-    hub_motor: StrictBool = Field(
-        False, description="the motor is in the wheel: no reduction (ratio 1)"
+    wheel_diameter: Diameter | None = Field(
+        None, description="the driven wheel's outer diameter, tyre inflated", examples=["200 mm"]
     )
+    efficiency: Fraction | None = Field(
+        None, description="wheel power over motor shaft power", examples=["92 %"]
+    )
+    hub_motor: StrictBool = Field(False, description="the motor is in the wheel: ratio 1")
 
     @model_validator(mode="after")
     def _one_ratio(self) -> Self:
@@ -269,7 +307,7 @@ class Controller(_Model):
         "(acting no sooner than its averaging window); absent is taken as software",
     )
     current_limit_response: Duration | None = Field(
-        None, description="time from overcurrent to the limit acting"
+        None, description="time from overcurrent to the limit acting", examples=["50 us"]
     )
     rated_continuous_current: Current | None = Field(
         None,
@@ -300,24 +338,58 @@ class Controller(_Model):
         description="the most battery current regenerative braking drives into the pack",
         examples=["5 A"],
     )
-    max_duty: Fraction | None = None
-    pwm_frequency: Frequency | None = None
-    switch_on_resistance: Resistance | None = None
-    switch_max_voltage: Voltage | None = None
-    switch_max_current: Current | None = None
-    switch_max_junction_temperature: Temperature | None = None
-    switch_thermal_resistance_junction_case: ThermalResistance | None = None
-    switch_thermal_resistance_case_sink: ThermalResistance | None = None
-    switch_thermal_resistance_sink_air: ThermalResistance | None = None
-    switch_rise_time: Duration | None = None
-    switch_fall_time: Duration | None = None
-    freewheel_diode: StrictBool | None = None
-    diode_reverse_voltage: Voltage | None = None
-    diode_average_current: Current | None = None
-    diode_peak_current: Current | None = None
-    current_sensor_range: Current | None = None
-    current_samples_averaged: StrictInt | None = Field(None, ge=1, le=1_000_000)
-    current_sample_rate: Frequency | None = None
+    max_duty: Fraction | None = Field(None, description="its largest PWM duty", examples=["95 %"])
+    pwm_frequency: Frequency | None = Field(
+        None, description="its switching (PWM) frequency", examples=["18 kHz"]
+    )
+    switch_on_resistance: Resistance | None = Field(
+        None, description="a power switch's datasheet R_DS(on)", examples=["0.004 ohm"]
+    )
+    switch_max_voltage: Voltage | None = Field(
+        None, description="a switch's datasheet V_DS rating", examples=["80 V"]
+    )
+    switch_max_current: Current | None = Field(
+        None, description="a switch's datasheet continuous drain current", examples=["120 A"]
+    )
+    switch_max_junction_temperature: Temperature | None = Field(
+        None, description="a switch's datasheet maximum junction temperature", examples=["175 degC"]
+    )
+    switch_thermal_resistance_junction_case: ThermalResistance | None = Field(
+        None, description="a switch's datasheet R_thJC", examples=["0.9 K/W"]
+    )
+    switch_thermal_resistance_case_sink: ThermalResistance | None = Field(
+        None, description="case to heat sink, through its pad or paste", examples=["0.6 K/W"]
+    )
+    switch_thermal_resistance_sink_air: ThermalResistance | None = Field(
+        None, description="heat sink (or the case) to air", examples=["3 K/W"]
+    )
+    switch_rise_time: Duration | None = Field(
+        None, description="a switch's datasheet rise time", examples=["40 ns"]
+    )
+    switch_fall_time: Duration | None = Field(
+        None, description="a switch's datasheet fall time", examples=["30 ns"]
+    )
+    freewheel_diode: StrictBool | None = Field(
+        None, description="a brushed drive has a diode across the motor"
+    )
+    diode_reverse_voltage: Voltage | None = Field(
+        None, description="that diode's datasheet reverse voltage", examples=["100 V"]
+    )
+    diode_average_current: Current | None = Field(
+        None, description="that diode's datasheet average current", examples=["16 A"]
+    )
+    diode_peak_current: Current | None = Field(
+        None, description="that diode's datasheet peak current", examples=["150 A"]
+    )
+    current_sensor_range: Current | None = Field(
+        None, description="the current sensor's full scale", examples=["75 A"]
+    )
+    current_samples_averaged: StrictInt | None = Field(
+        None, ge=1, le=1_000_000, description="samples a software limit averages", examples=[16]
+    )
+    current_sample_rate: Frequency | None = Field(
+        None, description="how often it samples the current", examples=["40 kHz"]
+    )
 
     @model_validator(mode="before")
     @classmethod

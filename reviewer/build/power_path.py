@@ -61,18 +61,24 @@ class ConnectorCircuit(enum.Enum):
 
 
 class Connector(_Model):
-    name: Name
-    kind: ConnectorKind = ConnectorKind.CONNECTOR
+    name: Name = Field(description="what findings call it", examples=["main plug"])
+    kind: ConnectorKind = Field(
+        ConnectorKind.CONNECTOR,
+        description="connector (a plug and socket), switch (the main power switch or a loop "
+        "key) or anti-spark (a connector with a built-in pre-charge resistor)",
+    )
     circuit: ConnectorCircuit = Field(
         description="battery (pack to controller), motor or phase (controller to a brushed or "
         "brushless motor) or charge (the charge port)"
     )
-    motor: Name | None = Field(None, description="the motor a phase connector serves")
+    motor: Name | None = Field(
+        None, description="the motor a phase connector serves", examples=["front hub"]
+    )
     current_rating: Current | None = Field(
-        None, description="its datasheet continuous current per contact", examples=["40 A"]
+        None, description="its datasheet continuous current per contact", examples=["50 A"]
     )
     voltage_rating: Voltage | None = Field(
-        None, description="its datasheet DC voltage rating", examples=["60 V"]
+        None, description="its datasheet DC voltage rating", examples=["75 V"]
     )
     precharge: StrictBool | None = Field(
         None,
@@ -92,10 +98,10 @@ class Charger(_Model):
         None, description="the charger's output current (its label)", examples=["2 A"]
     )
     port_current_rating: Current | None = Field(
-        None, description="the charge port's datasheet current rating", examples=["5 A"]
+        None, description="the charge port's datasheet current rating", examples=["8 A"]
     )
     port_voltage_rating: Voltage | None = Field(
-        None, description="the charge port's datasheet DC voltage rating", examples=["60 V"]
+        None, description="the charge port's datasheet DC voltage rating", examples=["50 V"]
     )
     separate_port: StrictBool | None = Field(
         None, description="it charges through its own port, bypassing the discharge path"

@@ -40,21 +40,34 @@ class Insulation(enum.Enum):
 
 
 class Wire(_Model):
-    name: Name
+    name: Name = Field(description="what findings and fuses call it", examples=["pack positive"])
     circuit: Circuit = Field(
         description="what the wire carries: battery (pack to controller), motor (brushed motor "
-        "leads), phase (brushless phase leads), logic, brake or other"
+        "leads), phase (brushless phase leads), logic (the logic board's wiring), brake (a "
+        "dynamic brake's loop) or other"
     )
-    motor: Name | None = Field(None, description="for motor-circuit wires in a multi-motor build")
-    gauge: Gauge | None = None
-    cross_section: Area | None = None
-    length: Length
-    insulation: Insulation | None = None
-    temperature_rating: Temperature | None = None
+    motor: Name | None = Field(
+        None, description="for motor-circuit wires in a multi-motor build", examples=["rear"]
+    )
+    gauge: Gauge | None = Field(None, description="as printed on the insulation; or cross_section")
+    cross_section: Area | None = Field(
+        None, description="the conductor's metric size; or gauge", examples=["4 mm^2"]
+    )
+    length: Length = Field(description="the wire's length end to end, in m", examples=["0.35 m"])
+    insulation: Insulation | None = Field(
+        None,
+        description="the insulation on its marking or datasheet: pvc (70 degC PVC), pvc-90 "
+        "(90 degC PVC), rubber, xlpe (cross-linked polyethylene), silicone or ptfe",
+    )
+    temperature_rating: Temperature | None = Field(
+        None, description="the insulation's rating, as printed", examples=["105 degC"]
+    )
     bundled_with: StrictInt = Field(
-        0, ge=0, le=100, description="other loaded conductors alongside"
+        0, ge=0, le=100, description="other loaded conductors alongside", examples=[2]
     )
-    rated_ampacity: Current | None = Field(None, description="from the wire's own datasheet")
+    rated_ampacity: Current | None = Field(
+        None, description="from the wire's own datasheet", examples=["38 A"]
+    )
 
     @model_validator(mode="after")
     def _one_size(self) -> Self:
@@ -73,10 +86,24 @@ class Wire(_Model):
 
 
 class Fuse(_Model):
-    name: Name
-    location: Literal["battery-positive", "battery-negative", "motor", "logic", "other"]
-    rating: Current
-    voltage_rating: Voltage | None = None
-    breaking_capacity: Current | None = None
-    clearing_time: Duration | None = Field(None, description="at the stall current, from its curve")
-    protects: list[Name] = Field(default_factory=list, max_length=MAX_ITEMS)
+    name: Name = Field(description="what findings call it", examples=["main fuse"])
+    location: Literal["battery-positive", "battery-negative", "motor", "logic", "other"] = Field(
+        description="where it sits: battery-positive or battery-negative (in the pack's lead "
+        "of that side), motor (a motor lead), logic (the logic supply) or other"
+    )
+    rating: Current = Field(description="its rated current as marked, in A", examples=["32 A"])
+    voltage_rating: Voltage | None = Field(
+        None, description="its datasheet DC voltage rating", examples=["58 V"]
+    )
+    breaking_capacity: Current | None = Field(
+        None, description="the most fault current it interrupts (datasheet)", examples=["2000 A"]
+    )
+    clearing_time: Duration | None = Field(
+        None, description="at the stall current, from its curve", examples=["80 ms"]
+    )
+    protects: list[Name] = Field(
+        default_factory=list,
+        max_length=MAX_ITEMS,
+        description="the wires it protects, by name",
+        examples=[["pack positive"]],
+    )
