@@ -98,15 +98,10 @@ def test_a_stall_exactly_twice_the_capability_to_the_last_digit_is_fix():
     assert beyond.severity is Severity.STOP
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="battery.discharge compares the stall with 2 x the capability without the module's "
-    "float tolerance: 25.2 V / 0.3 ohm works out to 84.00000000000001 A, so a stall of exactly "
-    "2 x a 42 A pack is a stop ('2 x its rating ... beyond the 2 x the profile allows')",
-)
 def test_a_stall_of_exactly_twice_a_whole_ampere_capability_is_fix():
     # Ohm's law: 6 x 4.2 V / 0.3 ohm = 84 A = 2 x 42 A exactly; the rule's docstring: stop only
-    # for more than 2 x (profile battery.stall_overload_stop, common practice)
+    # for more than 2 x (profile battery.stall_overload_stop, common practice); 25.2 V / 0.3 ohm
+    # works out to 84.00000000000001 A in floats, which must not flip it
     finding = discharge(pack(cell_continuous_current="42 A"))
     assert finding.severity is Severity.FIX
 

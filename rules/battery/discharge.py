@@ -208,7 +208,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         None,
     )
     severity = Severity.FIX
-    if demand.unlimited and total > ratio * capability:
+    if demand.unlimited and total > ratio * capability + _EPSILON:
         if fuse is None:
             severity = Severity.STOP
             text += (
