@@ -191,11 +191,17 @@ def _climb_findings(
             if speed <= 0
             else f"it slows to {f(ms_to_kmh(speed))} km/h, below walking pace"
         )
+        gives = (
+            f"gives at most {f(available)} A per motor there ({cause})"
+            if available > 0
+            else "gives no driving current there (walking pace is above the motor's no-load "
+            "speed on this gearing)"
+        )
         yield Finding(
             Severity.FIX,
             subject,
-            f"{situation} The drive gives at most {f(available)} A per motor there "
-            f"({cause}), so {fate}; it holds {f(min(steepest, 100.0))} % at walking pace.",
+            f"{situation} The drive {gives}, so {fate}; it holds "
+            f"{f(min(steepest, 100.0))} % at walking pace.",
             measured=u.quantity(needed, _A),
             limit=u.quantity(available, _A),
             comparison=Comparison.AT_MOST,
