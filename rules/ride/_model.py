@@ -86,11 +86,24 @@ def _simulate(build: Build, profile: Profile) -> Ride:
         classes.append(grade)
         if drive is not None:
             windings.append(_winding(motor, grade, ambient, drive, profile, notes))
+    notes.append(
+        Assumption(
+            "Each ride starts from rest with a full pack and the windings at the ambient "
+            "temperature (a cold start: a second ride straight after starts hotter)."
+        )
+    )
     pack, energy_missing = _pack(build, notes)
     results: list[RideResult] = []
     if drive is not None and not missing and build.vehicle.mass is not None:
         assert pack is not None or build.battery is not None
         heat_pack = pack if pack is not None else _heating_pack(build)
+        if pack is None:
+            notes.append(
+                Assumption(
+                    f"{', '.join(energy_missing)} not given: for the winding's heat the pack is "
+                    "taken as stiff and full all ride (the most power it could give)."
+                )
+            )
         cutoff = _cutoff(build)
         for rider in build.riders:
             mass = in_unit(build.vehicle.mass, "kg") + in_unit(rider.mass, "kg")
