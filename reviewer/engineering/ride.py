@@ -45,8 +45,7 @@ from reviewer.engineering.roadload import (
 )
 
 _MAX_STEPS = 2_000_000
-_SNAP = 1e-3  # relative: within this of the cruise speed counts as there (the last 0.1 % of an
-# asymptotic approach took a third of the steps; peak, energy and sag agree to 4 figures)
+_SNAP = 1e-3  # relative: within this of the cruise speed counts as there (saves the asymptote)
 _EPS_M = 1e-9  # m: a distance this short is no step
 _CHECK = 1e-9  # relative tolerance of the invariants
 
