@@ -162,7 +162,8 @@ def _range_finding(build: Build, controller: Controller) -> Finding:
     stall = worst_stall(build)
     needed = stall.current if stall is not None else limit
     remedy = (
-        f"use a current sensor with a range of at least {ceil_whole(needed)} A"
+        f"use a current sensor with a range of at least {ceil_whole(needed)} A "
+        "(controller.current_sensor_range)"
         if needed is not None
         else None
     )

@@ -209,7 +209,10 @@ def _diode_remedy(needs: _Needs) -> str:
             f"{needs.voltage_factor:g} x the pack's full voltage and the motor's stall current"
         )
     listed = parts[0] if len(parts) == 1 else ", ".join(parts[:-1]) + " and " + parts[-1]
-    return f"fit a diode rated at least {listed} across the motor (cathode to its positive side)"
+    return (
+        f"fit a diode rated at least {listed} across the motor (cathode to its positive side), "
+        "then set controller.freewheel_diode = true with its ratings"
+    )
 
 
 def _ratings(controller: Controller, needs: _Needs, voltage_factor: Limit) -> Iterator[Finding]:
