@@ -32,31 +32,22 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 
-from reviewer.engineering.motor import TorqueSpeedLine
+from reviewer.engineering.ride_drive import DriveAt, cruise_currents
+from reviewer.engineering.ride_drive import RideModelError as RideModelError
+from reviewer.engineering.ride_drive import require as _require
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
 from reviewer.engineering.ride_thermal import Winding, runaway_parameter, winding_step
 from reviewer.engineering.roadload import (
     Drive,
-    ground_speed_for,
     road_load_force,
-    top_speed,
 )
 
 _MAX_STEPS = 2_000_000
 _SNAP = 1e-3  # relative: within this of the cruise speed counts as there (saves the asymptote)
 _EPS_M = 1e-9  # m: a distance this short is no step
 _CHECK = 1e-9  # relative tolerance of the invariants
-
-
-class RideModelError(AssertionError):
-    """An invariant of the model failed: a defect in the model, never an input's fault."""
-
-
-def _require(condition: bool, message: str) -> None:
-    if not condition:
-        raise RideModelError(message)
 
 
 @dataclass(frozen=True)
@@ -163,44 +154,6 @@ def _legs(segments: Sequence[Segment]) -> list[_Leg]:
     return legs
 
 
-class _DriveAt:
-    """The drive's lines at one pack voltage and winding temperature, and its cruise speeds."""
-
-    def __init__(self, drive: Drive, voltage: float, extra: Sequence[float], mass: float) -> None:
-        self.drive, self.mass = drive, mass
-        motors = tuple(
-            replace(m, branch_resistance=m.branch_resistance + r)
-            for m, r in zip(drive.motors, extra, strict=True)
-        )
-        self.lines = replace(drive, full_voltage=voltage, motors=motors).lines()
-        self.pull = drive._drive_force(self.lines, drive.reduction)
-        self._cruise: dict[tuple[float, float | None], float] = {}
-
-    def cruise(self, grade: float, target: float | None) -> float:
-        """min(target, the steady top speed on ``grade``) in m/s; 0 when it cannot climb."""
-        key = (grade, target)
-        if key not in self._cruise:
-            d = self.drive
-            if target is not None and max(self.pull(target), 0.0) >= road_load_force(
-                self.mass, target, d.rolling_resistance, d.drag_area, grade
-            ):
-                self._cruise[key] = target  # the load only rises and the pull only falls
-            else:
-                bound = max(
-                    ground_speed_for(line.no_load_speed, d.reduction, d.wheel_radius)
-                    for line in self.lines
-                )
-                self._cruise[key] = top_speed(
-                    lambda v: max(self.pull(v), 0.0),
-                    self.mass,
-                    d.rolling_resistance,
-                    d.drag_area,
-                    bound,
-                    grade,
-                )
-        return self._cruise[key]
-
-
 def simulate(
     drive: Drive,
     total_mass: float,
@@ -215,6 +168,7 @@ def simulate(
     voltage_step: float = 0.05,
     temperature_step: float = 5.0,
     cruise_dt: float | None = None,
+    accel_dt: float | None = None,
 ) -> RideResult:
     """Ride ``segments`` in order with ``total_mass`` kg (vehicle and rider) and step ``dt`` s.
 
@@ -240,15 +194,17 @@ def simulate(
     if not segments:
         raise ValueError("a route needs at least one segment")
     cruise_step = dt if cruise_dt is None else cruise_dt
-    if not cruise_step > 0:
-        raise ValueError("the cruise step must be positive")
+    accel_step = dt if accel_dt is None else accel_dt
+    if not (cruise_step > 0 and accel_step > 0):
+        raise ValueError("the cruise and acceleration steps must be positive")
 
     result = RideResult(cutoff_v=pack.cutoff_voltage if cutoff_voltage is None else cutoff_voltage)
     radius, ratio, eff = drive.wheel_radius, drive.reduction, drive.efficiency
     crr, cda = drive.rolling_resistance, drive.drag_area
     r_total = pack.resistance + wiring_resistance
     capacity_as = pack.capacity_ah * 3600.0
-    drives: dict[tuple[int, ...], _DriveAt] = {}
+    drives: dict[tuple[int, ...], DriveAt] = {}
+    hints: dict[tuple[float, float | None], float] = {}  # the last top speed per grade, target
 
     t, x, v, soc = 0.0, 0.0, max(start_speed_ms, 0.0), pack.state_of_charge
     thetas = [w.initial_c for w in windings]
@@ -270,7 +226,7 @@ def simulate(
                     w.resistance(n * t_step) - w.resistance_20c
                     for w, n in zip(windings, key[1:], strict=True)
                 ]
-                at = drives[key] = _DriveAt(drive, key[0] * voltage_step, hot, total_mass)
+                at = drives[key] = DriveAt(drive, key[0] * voltage_step, hot, total_mass, hints)
             lines = at.lines
             cruise = at.cruise(leg.grade, leg.target)
             if cruise <= 0.0:
@@ -280,16 +236,17 @@ def simulate(
                 return result
             v = min(v, cruise)
             remaining = leg.end_m - x
-            if v < cruise * (1.0 - _SNAP):  # full throttle
-                omega = v / radius * ratio
-                currents = [max(line.current(omega), 0.0) for line in lines]
-                torque = sum(
-                    ln.kt * (c - ln.no_load_current) for ln, c in zip(lines, currents, strict=True)
-                )
+            if v < cruise * (1.0 - _SNAP):  # full throttle: a midpoint step on speed
                 load = road_load_force(total_mass, v, crr, cda, leg.grade)
-                accel = (max(torque, 0.0) * ratio * eff / radius - load) / total_mass
+                accel = (max(at.pull(v), 0.0) - load) / total_mass
                 _require(accel > 0, "below the top speed the drive must outpull the load")
-                step = min(dt, (cruise - v) / accel)
+                step = min(accel_step, (cruise - v) / accel)
+                middle = min(v + 0.5 * accel * step, cruise)
+                load = road_load_force(total_mass, middle, crr, cda, leg.grade)
+                accel = max((max(at.pull(middle), 0.0) - load) / total_mass, 0.5 * accel)
+                step = min(step, (cruise - v) / accel)
+                omega = middle / radius * ratio  # the step's currents and power at its middle
+                currents = [max(line.current(omega), 0.0) for line in lines]
                 distance = v * step + 0.5 * accel * step * step
                 if distance > remaining:
                     step = 2.0 * remaining / (v + math.sqrt(v * v + 2.0 * accel * remaining))
@@ -299,7 +256,7 @@ def simulate(
                 v = cruise
                 omega = v / radius * ratio
                 load = road_load_force(total_mass, v, crr, cda, leg.grade)
-                currents = _cruise_currents(lines, load * radius / (eff * ratio), omega)
+                currents = cruise_currents(lines, load * radius / (eff * ratio), omega)
                 step = min(cruise_step, remaining / v)
                 distance = v * step
                 if distance > remaining or remaining - distance < _EPS_M:
@@ -353,21 +310,6 @@ def simulate(
                 result.stop_reason = f"the pack is empty at {x:.0f} m"
                 return result
     return result
-
-
-def _cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -> list[float]:
-    """Motor currents giving ``torque`` N m in all, shared in proportion to each line's
-    torque at ``omega``; I = T / Kt + I0, never above the line."""
-    if torque <= 0.0:
-        return [0.0] * len(lines)
-    most = [line.current(omega) for line in lines]
-    maxima = [max(ln.kt * (c - ln.no_load_current), 0.0) for ln, c in zip(lines, most, strict=True)]
-    total = sum(maxima)
-    _require(total >= torque * (1.0 - 1e-6), "cruise demands more torque than the drive gives")
-    return [
-        min(torque * m / total / ln.kt + ln.no_load_current, c)
-        for ln, m, c in zip(lines, maxima, most, strict=True)
-    ]
 
 
 def _record(

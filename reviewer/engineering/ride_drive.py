@@ -1,0 +1,108 @@
+"""The drive at one pack voltage and winding temperature, as the ride simulation reads it: its
+torque-speed lines, its pull at the wheel, its steady top speed on each grade, and how a cruise
+shares its torque among the motors.
+
+A ride passes through many such states as the pack drains and the windings warm; each steady top
+speed lies close to the last one found for the same grade, so that bracket is tried first.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import replace
+
+from reviewer.engineering.motor import TorqueSpeedLine
+from reviewer.engineering.roadload import (
+    Drive,
+    bracketed_root,
+    ground_speed_for,
+    road_load_force,
+    top_speed,
+)
+
+
+class RideModelError(AssertionError):
+    """An invariant of the model failed: a defect in the model, never an input's fault."""
+
+
+def require(condition: bool, message: str) -> None:
+    """Raise :class:`RideModelError` unless ``condition`` (kept under ``python -O``)."""
+    if not condition:
+        raise RideModelError(message)
+
+
+class DriveAt:
+    """The drive's lines at one pack voltage and winding temperature, and its cruise speeds.
+    ``hints`` (shared by every state of one ride): the last top speed found per (grade, target).
+    """
+
+    def __init__(
+        self,
+        drive: Drive,
+        voltage: float,
+        extra: Sequence[float],
+        mass: float,
+        hints: dict[tuple[float, float | None], float] | None = None,
+    ) -> None:
+        self.drive, self.mass = drive, mass
+        motors = tuple(
+            replace(m, branch_resistance=m.branch_resistance + r)
+            for m, r in zip(drive.motors, extra, strict=True)
+        )
+        self.lines = replace(drive, full_voltage=voltage, motors=motors).lines()
+        self.pull = drive._drive_force(self.lines, drive.reduction)
+        self._cruise: dict[tuple[float, float | None], float] = {}
+        self.hints = {} if hints is None else hints
+
+    def cruise(self, grade: float, target: float | None) -> float:
+        """min(target, the steady top speed on ``grade``) in m/s; 0 when it cannot climb."""
+        key = (grade, target)
+        if key not in self._cruise:
+            d = self.drive
+            if target is not None and max(self.pull(target), 0.0) >= road_load_force(
+                self.mass, target, d.rolling_resistance, d.drag_area, grade
+            ):
+                self._cruise[key] = target  # the load only rises and the pull only falls
+            else:
+                self._cruise[key] = self._top_speed(grade, self.hints.get(key))
+            self.hints[key] = self._cruise[key]
+        return self._cruise[key]
+
+    def _top_speed(self, grade: float, hint: float | None) -> float:
+        d = self.drive
+
+        def surplus(v: float) -> float:
+            load = road_load_force(self.mass, v, d.rolling_resistance, d.drag_area, grade)
+            return max(self.pull(v), 0.0) - load
+
+        if hint is not None and hint > 0.0:
+            low, high = 0.98 * hint, 1.02 * hint
+            # the pull never rises with speed and the load always does: one crossing
+            if surplus(low) > 0.0 > surplus(high):
+                return bracketed_root(surplus, low, high)
+        bound = max(
+            ground_speed_for(line.no_load_speed, d.reduction, d.wheel_radius) for line in self.lines
+        )
+        return top_speed(
+            lambda v: max(self.pull(v), 0.0),
+            self.mass,
+            d.rolling_resistance,
+            d.drag_area,
+            bound,
+            grade,
+        )
+
+
+def cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -> list[float]:
+    """Motor currents giving ``torque`` N m in all, shared in proportion to each line's
+    torque at ``omega``; I = T / Kt + I0, never above the line."""
+    if torque <= 0.0:
+        return [0.0] * len(lines)
+    most = [line.current(omega) for line in lines]
+    maxima = [max(ln.kt * (c - ln.no_load_current), 0.0) for ln, c in zip(lines, most, strict=True)]
+    total = sum(maxima)
+    require(total >= torque * (1.0 - 1e-6), "cruise demands more torque than the drive gives")
+    return [
+        min(torque * m / total / ln.kt + ln.no_load_current, c)
+        for ln, m, c in zip(lines, maxima, most, strict=True)
+    ]
