@@ -168,6 +168,16 @@ def test_brake_relay_contacts():
     assert "brake relay contacts" not in findings(brakes=[{"kind": "friction"}])
 
 
+def test_two_brake_relays_are_judged_each_by_name() -> None:
+    # each relay's contacts against the 42 V full pack (10 x 4.2 V, from memory), named apart
+    front = {"name": "front short", "kind": "dynamic", "relay_contact_voltage": "30 V"}
+    rear = {"kind": "dynamic", "relay_contact_voltage": "60 V"}
+    found = findings(brakes=[front, rear])
+    assert found["brake relay contacts 'front short'"].severity is Severity.STOP
+    assert found["brake relay contacts 'brakes[1]'"].severity is Severity.PASS
+    assert "brake relay contacts" not in found
+
+
 @pytest.mark.parametrize(
     ("rated", "severity"),
     [
