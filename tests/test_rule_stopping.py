@@ -308,3 +308,34 @@ def test_weak_regeneration_lets_a_fast_vehicle_run_away() -> None:
 def test_no_descent_given_is_unassessed() -> None:
     findings = run_rule_on(DESCENT, scooter(usage__steepest_grade=None))
     assert [f.missing for f in findings] == [("usage.steepest_grade",)]
+
+
+def test_a_brake_exactly_at_the_minimum_stops_in_exactly_the_reference() -> None:
+    # s = v t + v^2 / (2 a) (brief 14): a brake of exactly 3.5 m/s^2 (eKFV 4(1) no. 3) makes
+    # exactly the reference stop, which passes (at most the reference)
+    data = scooter(brakes__0__deceleration="3.5 m/s^2")
+    flat = by_subject(STOPPING, data)["stopping on the flat, every brake, rider 'Ada'"]
+    assert flat.measured.m_as("m") == pytest.approx(flat.limit.m_as("m"), rel=1e-12)
+    assert flat.severity is Severity.PASS
+
+
+def test_an_untested_mass_is_the_lightest_riders_and_heavier_riders_get_its_force() -> None:
+    # F = m a: 4 m/s^2 taken at 20 + 40 kg (the lightest rider with the vehicle) is 240 N,
+    # 2.4 m/s^2 for 20 + 80 kg; stated as an assumption
+    data = scooter(brakes__0__tested_with_mass=None)
+    data["riders"].append({"name": "Kim", "mass": "40 kg", "class": "youth"})
+    findings, _, notes = rule_outputs(STOPPING, data)
+    ada = {f.subject: f for f in findings}["stopping on the flat, every brake, rider 'Ada'"]
+    v = top_speed(100.0)
+    assert ada.measured.m_as("m") == pytest.approx(v + v * v / (2 * 240 / 100), rel=1e-6)
+    assert any("tested_with_mass not given" in n.text for n in notes)
+
+
+def test_no_independent_brake_names_the_share_a_friction_brake_must_reach() -> None:
+    # eKFV 4(1) no. 4: each brake alone reaches 44 % of 3.5 m/s^2, 1.54 m/s^2
+    data = scooter(brakes=[REGEN_BRAKE], controller__regen=True)
+    data["controller"]["regen_current_limit"] = "5 A"
+    finding = by_subject(STOPPING, data)["brake independent of the drive electronics"]
+    assert "1.54 m/s²" in (finding.remedy or "")
+    _, _, notes = rule_outputs(STOPPING, data)
+    assert any("acts through the motor" in n.text for n in notes)
