@@ -339,3 +339,57 @@ def test_no_independent_brake_names_the_share_a_friction_brake_must_reach() -> N
     assert "1.54 m/s²" in (finding.remedy or "")
     _, _, notes = rule_outputs(STOPPING, data)
     assert any("acts through the motor" in n.text for n in notes)
+
+
+def flat_stop(data: dict[str, Any]) -> float:
+    finding = by_subject(STOPPING, data)["stopping on the flat, every brake, rider 'Ada'"]
+    return finding.measured.m_as("m")
+
+
+def test_a_brake_force_and_a_tested_stop_give_their_decelerations() -> None:
+    # F = m a: 400 N on 100 kg is 4 m/s^2; a tested stop from v in s is v^2 / (2 s) (constant-
+    # deceleration kinematics): 25 km/h in 6 m is 4.019 m/s^2
+    v = top_speed(100.0)
+    force = scooter(brakes=[{"kind": "friction", "acts_on": "front", "force": "400 N"}])
+    assert flat_stop(force) == pytest.approx(v + v * v / 8.0, rel=1e-9)
+    tested = kmh_to_ms(25.0) ** 2 / 12.0
+    stop = {
+        "kind": "friction",
+        "acts_on": "front",
+        "tested_stopping_distance": "6 m",
+        "tested_from_speed": "25 km/h",
+        "tested_with_mass": "100 kg",
+    }
+    assert flat_stop(scooter(brakes=[stop])) == pytest.approx(v + v * v / (2 * tested), rel=1e-9)
+
+
+def test_a_dynamic_brake_beside_a_friction_brake_has_a_closed_form() -> None:
+    # a shorted DC motor brakes with F = Kt Ke reduction^2 v / (R r^2) (Chapman, from memory):
+    # a = a0 + k v integrates to s = v/k - (a0 / k^2) ln(1 + k v / a0) (calculus); 0.4 ohm
+    # winding + 2 ohm resistor, 5:1, 0.1 m wheel, 100 kg
+    dynamic = {"kind": "dynamic", "acts_on": "motor", "brake_resistance": "2 ohm"}
+    data = scooter()
+    data["brakes"].append(dynamic)
+    k = KT * KT * 25 / (2.4 * 0.01) / 100.0
+    v, a0 = top_speed(100.0), 4.0
+    assert k * v < 0.4 * 0.7 * 9.80665  # below the rear axle's grip: no cap
+    expected = v + v / k - a0 / (k * k) * math.log(1 + k * v / a0)
+    assert flat_stop(data) == pytest.approx(expected, rel=1e-6)
+
+
+def test_regenerative_braking_adds_its_energy_balance_force() -> None:
+    # energy balance: 5 A into the 30 V cut-off pack brakes with F = V I / v above the 5 km/h
+    # fade, at most Kt I_lim reduction / r = 47.7 N by the 10 A motor limit; the stop integrates
+    # v dv / (a0 + F(v)/m) (here by a fine midpoint sum)
+    data = scooter(controller__regen=True, controller__regen_current_limit="5 A")
+    data["brakes"].append(REGEN_BRAKE)
+    v, a0, fade = top_speed(100.0), 4.0, kmh_to_ms(5.0)
+    steps = 200_000
+    h = v / steps
+    total = 0.0
+    for i in range(steps):
+        s = (i + 0.5) * h
+        extra = min(30.0 * 5.0 / s, KT * 10 * 5 / 0.1) / 100.0 if s > fade else 0.0
+        total += s / (a0 + min(extra, 0.4 * 0.7 * 9.80665)) * h
+    assert flat_stop(data) == pytest.approx(v + total, rel=1e-4)
+    assert flat_stop(data) < flat_stop(scooter())
