@@ -252,3 +252,49 @@ def test_a_shorted_brushless_motor_brakes_less_once_its_inductance_counts() -> N
     share = 1 / (1 + (7 * omega * 300e-6 / 0.4) ** 2)
     assert finding.measured.m_as("m/s**2") == pytest.approx(resistive * share, rel=1e-4)
     assert finding.severity is Severity.FIX  # about 1.6 m/s^2 against 3.5 as the only brake
+
+
+def test_contacts_exactly_at_their_rating_pass() -> None:
+    # the relay's DC rating is a maximum: a current exactly at it is within it
+    current = by_subject(kart())[CONTACTS].measured.m_as("A")
+    exact = by_subject(kart(brake__relay_contact_rating=f"{current!r} A"))[CONTACTS]
+    assert exact.severity is Severity.PASS
+    assert "on the flat" in exact.rationale  # a 0 % descent is no faster than the flat
+
+
+def test_the_fade_speed_is_where_the_force_meets_the_requirement() -> None:
+    # F = c v (Chapman, from memory), so the deceleration falls under a_req below
+    # v = a_req m / c; beside a friction brake a_req is 44 % of 3.5 m/s^2 (eKFV 4(1) no. 4)
+    finding = by_subject(kart(friction=True, brake__relay_contact_rating="100 A"))[
+        "dynamic braking, rider 'Ada'"
+    ]
+    c = KT * KT * 25 / (0.4 * 0.01)
+    fade = 0.44 * 3.5 * 100.0 / c * 3.6
+    assert f"below {fade:.3g} km/h it gives under 1.54 m/s²" in finding.rationale
+    assert "44 % of 3.5 m/s²" in finding.rationale
+
+
+def test_a_dynamic_brake_just_short_of_its_requirement_is_not_a_pass() -> None:
+    # the requirement is a minimum: just under it is short (a boundary of a >= comparison)
+    c = KT * KT * 25 / (0.4 * 0.01)
+    decel = c * top_speed(100.0) / 100.0
+    # a brake resistor that brings Ada's deceleration a hair under 3.5 m/s^2
+    resistor = 0.4 * decel / 3.499 - 0.4
+    data = kart(brake__relay_contact_rating="200 A", brake__brake_resistance=f"{resistor} ohm")
+    finding = by_subject(data)["dynamic braking, rider 'Ada'"]
+    assert finding.measured.m_as("m/s**2") < 3.5
+    assert finding.severity is Severity.FIX
+
+
+def test_several_motors_and_several_dynamic_brakes_are_told_apart() -> None:
+    second = {**KART["motors"][0], "name": "front"}
+    data = kart(motors=[KART["motors"][0], second])
+    findings, _, notes = rule_outputs(RULE, data)
+    assert any("its own relay contacts" in n.text for n in notes)
+    assert {f"brake relay contacts, motor '{m}'" for m in ("rear", "front")} <= {
+        f.subject for f in findings
+    }
+    data = kart(brakes=[KART["brakes"][0], {**KART["brakes"][0], "name": "spare"}])
+    subjects = {f.subject for f in run_rule_on(RULE, data)}
+    assert "brake relay contacts, motor 'rear', brakes[0] (dynamic)" in subjects
+    assert "brake relay contacts, motor 'rear', brake 'spare'" in subjects
