@@ -181,3 +181,46 @@ def test_the_ride_converges_with_its_step() -> None:
     result = coarse.results[0]
     assert result.wh_per_km() == pytest.approx(fine.wh_per_km(), rel=2e-3)
     assert result.peak_winding_c == pytest.approx(fine.peak_winding_c, abs=0.5)
+
+
+def test_severity_follows_the_peak_against_the_class_limits() -> None:
+    # IEC 60034-1 class F: 40 degC + 105 K = 145 degC rise limit; IEC 60085: 155 degC class
+    def judged(km: float) -> Severity:
+        finding = heat(hill(f"{km!r} km"))
+        peak = finding.measured.m_as("degC")
+        expected = Severity.PASS if peak <= 145 else Severity.FIX if peak <= 155 else Severity.STOP
+        assert finding.severity is expected, (km, peak)
+        return expected
+
+    # between a climb that passes and one that stops lies one whose peak is in the 10 K band
+    low, high = 0.2, 8.0
+    assert judged(low) is Severity.PASS and judged(high) is Severity.STOP
+    for _ in range(30):
+        middle = 0.5 * (low + high)
+        found = judged(middle)
+        if found is Severity.FIX:
+            break
+        low, high = (middle, high) if found is Severity.PASS else (low, middle)
+    assert found is Severity.FIX
+
+
+def test_the_full_load_time_on_the_climb_against_the_exact_solution() -> None:
+    # brief 12: C dtheta/dt = I^2 R20 (1 + a (theta - 20)) - (theta - theta_amb) / R_th, linear in
+    # theta, so theta(t) = theta_ss + (theta_0 - theta_ss) exp(-t / tau'), tau' = C / (1/R_th -
+    # I^2 R20 a); R_th from the 6 A rating reaching 145 degC at 40 degC (motor.cooling's
+    # calibration), C = tau / R_th with tau = 5 min, at the 10 A limit, from 25 degC
+    from reviewer.engineering.thermal import calibrated_thermal_resistance
+
+    _, figures, _ = rule_outputs(HEATING, hill("8 km"))
+    (hold,) = [f for f in figures if f.name.startswith("full-load time on the steepest climb")]
+    r_th = calibrated_thermal_resistance(6.0, 0.4, 105.0)
+    capacity, alpha, loss = 300.0 / r_th, 0.00393, 10.0**2 * 0.4
+    b = loss * alpha - 1 / r_th
+    a = loss * (1 - 20 * alpha) + 25.0 / r_th
+    steady = -a / b
+    seconds = capacity / b * math.log((145.0 - steady) / (25.0 - steady))
+    assert hold.value.m_as("min") == pytest.approx(seconds / 60, rel=1e-6)
+    # the hill it makes: that time at the climb's steady speed
+    speed = float(hold.note.split(" km/h")[0].split(" and ")[-1]) / 3.6
+    length = float(hold.note.split(" km climb")[0].split(" a ")[-1])
+    assert length == pytest.approx(seconds * speed / 1000, rel=0.05)
