@@ -79,11 +79,12 @@ class WaiverNote:
 def load_waivers(path: str | Path) -> WaiverSet:
     where = str(path)
     raw = read_bytes(path, "waivers file")  # regular files only, at most 1 MiB
-    data = load_toml(decode(raw, where, "a waivers file"), where)
+    text = decode(raw, where, "a waivers file")
+    data = load_toml(text, where)
     try:
         parsed = WaiverFile.model_validate(data)
-    except ValidationError as exc:
-        raise validation_error(exc, where, WaiverFile) from None
+    except ValidationError as exc:  # every error, each at its line, as for a build file
+        raise validation_error(exc, where, WaiverFile, text) from None
     return WaiverSet(where, hashlib.sha256(raw).hexdigest(), tuple(parsed.waiver))
 
 

@@ -89,7 +89,8 @@ def test_bad_waivers_file_is_one_line(tmp_path: Path, capsys) -> None:
     code = main(["review", str(SAMPLES / "quayside-commuter.toml"), "--waivers", str(path)])
     err = capsys.readouterr().err.strip()
     assert code == 2
-    assert err == f"firstride: {path}: waiver[0].accepted_by: this field is required"
+    # the missing field is placed at the line of its table, [[waiver]] on line 1
+    assert err == f"firstride: {path}:1: waiver[0].accepted_by: this field is required"
 
 
 def test_waivers_file_round_trip(tmp_path: Path) -> None:
