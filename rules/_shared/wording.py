@@ -17,15 +17,27 @@ STALL_SOURCE = Source.from_memory(
 )
 
 
+#: The profile's Crr and CdA taken when the build gives none: the low ones, the fast side.
+_FAST_SIDE = ("usage.default_rolling_resistance", "usage.default_drag_area")
+
+
 def drive_model(
-    build: Build, profile: Profile, bound: str = "high"
+    build: Build,
+    profile: Profile,
+    bound: str = "high",
+    defaults_from: tuple[str, str] = (
+        "usage.default_rolling_resistance",
+        "usage.default_drag_area",
+    ),
 ) -> tuple[Drive | None, list[Assumption], tuple[str, ...]]:
     """:func:`reviewer.figures.drive_model` with the profile's default Crr and CdA, and each
     default the build relied on worded as an assumption of the review. ``bound`` is the reading
     of a motor limit whose basis or drive is unstated: ``high`` (most current: speed, heat),
-    ``low`` (least torque: climbing)."""
-    crr_limit = profile.limit("usage.default_rolling_resistance")
-    cda_limit = profile.limit("usage.default_drag_area")
+    ``low`` (least torque: climbing). ``defaults_from``: the profile's keys of the Crr and CdA
+    taken when the build gives none (the low ones by default: the fast side; a check for which
+    more load is the pessimistic side names higher ones)."""
+    crr_limit = profile.limit(defaults_from[0])
+    cda_limit = profile.limit(defaults_from[1])
     drive, defaults, missing = figures.drive_model(
         build, float(crr_limit.value), in_unit(cda_limit.quantity, unit("m**2")), bound
     )

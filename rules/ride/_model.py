@@ -67,7 +67,12 @@ def ride_of(build: Build, profile: Profile) -> Ride:
 
 
 def _simulate(build: Build, profile: Profile) -> Ride:
-    drive, drive_notes, drive_missing = drive_model(build, profile)
+    # more road load is the pessimistic side for both heat and energy: the high defaults
+    drive, drive_notes, drive_missing = drive_model(
+        build,
+        profile,
+        defaults_from=("performance.hill.default_rolling_resistance", "ride.default_drag_area"),
+    )
     segments, route, notes = route_segments(build, profile)
     notes = [*drive_notes, *notes]
     missing = list(drive_missing) + (["riders"] if not build.riders else [])
