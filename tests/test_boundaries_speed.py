@@ -21,28 +21,12 @@ from reviewer.session import default_profile
 from reviewer.testing import rule_outputs, run_rule_on, variant
 from reviewer.units import format_number, quantity
 
-KART: dict[str, Any] = {
-    "vehicle": {"name": "boundary kart", "kind": "kart", "mass": "20 kg"},
-    "riders": [{"name": "Noor", "mass": "80 kg", "class": "adult"}],
-    "battery": {"chemistry": "li-ion", "cells_series": 10},
-    "motors": [
-        {
-            "name": "rear",
-            "type": "brushed",
-            "kv": "100 rpm/V",
-            "winding_resistance": "0.1 ohm",
-            "no_load_current": "1 A",
-        }
-    ],
-    "controller": {"motor_current_limit": "10 A"},
-    "drivetrain": {
-        "motor_pulley_teeth": 12,
-        "wheel_pulley_teeth": 60,
-        "wheel_diameter": "200 mm",
-        "efficiency": "90 %",
-    },
-    "usage": {"rolling_resistance": 0.01, "drag_area": "0.8 m^2"},
-}
+from .test_rule_speed import KART as BASE_KART
+
+# The kart of tests/test_rule_speed.py with one rider of our own.
+KART: dict[str, Any] = variant(
+    BASE_KART, riders=[{"name": "Noor", "mass": "80 kg", "class": "adult"}]
+)
 
 
 def kart(**changes: Any) -> dict[str, Any]:
