@@ -15,8 +15,8 @@ hot resistance for heating.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from functools import cached_property
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
 
 RPM_PER_RAD_S = 60.0 / (2.0 * math.pi)
 
@@ -80,20 +80,17 @@ class TorqueSpeedLine:
     no_load_current: float = 0.0
     current_limit: float | None = None
     battery_limit: float | None = None
+    #: Kt in N m/A and Ke in V s/rad, from Kv once (a ride builds thousands of lines)
+    kt: float = field(init=False, repr=False, compare=False)
+    ke: float = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
         if self.loop_resistance <= 0:
             raise ValueError("loop resistance must be positive")
         if self.kv_rpm_per_v <= 0:
             raise ValueError("Kv must be positive")
-
-    @cached_property
-    def kt(self) -> float:
-        return torque_constant(self.kv_rpm_per_v)
-
-    @cached_property
-    def ke(self) -> float:
-        return back_emf_constant(self.kv_rpm_per_v)
+        object.__setattr__(self, "kt", torque_constant(self.kv_rpm_per_v))
+        object.__setattr__(self, "ke", back_emf_constant(self.kv_rpm_per_v))
 
     @property
     def stall_current(self) -> float:
@@ -123,3 +120,45 @@ class TorqueSpeedLine:
     def torque(self, omega: float) -> float:
         """Shaft torque T = Kt (I - I0) in N m; negative above the no-load speed."""
         return self.kt * (self.current(omega) - self.no_load_current)
+
+
+def drive_force_function(
+    lines: Sequence[TorqueSpeedLine], ratio: float, efficiency: float, radius: float
+) -> Callable[[float], float]:
+    """The wheel force in N against ground speed in m/s of ``lines`` on one gearing: the sum
+    of ``TorqueSpeedLine.torque`` through ``wheel_force``, the same arithmetic in the same order
+    (a test holds them equal), with each line's numbers read once: a top speed or a ride
+    evaluates this thousands of times."""
+    numbers = [
+        (
+            line.kt,
+            line.ke,
+            line.voltage,
+            line.loop_resistance,
+            line.no_load_current,
+            line.current_limit,
+            line.battery_limit,
+            4.0 * line.loop_resistance * (line.battery_limit or 0.0) * line.voltage,
+        )
+        for line in lines
+    ]
+    sqrt = math.sqrt
+
+    def drive_force(speed: float) -> float:
+        omega = speed / radius * ratio  # motor_speed_for
+        torque = 0
+        for kt, ke, voltage, r, i0, limit, battery, four_r_ib_v in numbers:
+            current = (voltage - ke * omega) / r
+            if limit is not None and limit < current:
+                current = limit
+            if battery is not None:
+                emf = ke * omega
+                if emf < 0.0:
+                    emf = 0.0
+                drawn = (-emf + sqrt(emf * emf + four_r_ib_v)) / (2 * r)
+                if drawn < current:
+                    current = drawn
+            torque += kt * (current - i0)
+        return torque * ratio * efficiency / radius  # wheel_force
+
+    return drive_force

@@ -9,7 +9,6 @@ speed lies close to the last one found for the same grade, so that bracket is tr
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import replace
 
 from reviewer.engineering.motor import TorqueSpeedLine
 from reviewer.engineering.roadload import (
@@ -45,11 +44,7 @@ class DriveAt:
         hints: dict[tuple[float, float | None], float] | None = None,
     ) -> None:
         self.drive, self.mass = drive, mass
-        motors = tuple(
-            replace(m, branch_resistance=m.branch_resistance + r)
-            for m, r in zip(drive.motors, extra, strict=True)
-        )
-        self.lines = replace(drive, full_voltage=voltage, motors=motors).lines()
+        self.lines = drive.lines_at(voltage, extra)
         self.pull = drive._drive_force(self.lines, drive.reduction)
         self._cruise: dict[tuple[float, float | None], float] = {}
         self.hints = {} if hints is None else hints

@@ -13,10 +13,10 @@ searches find the gearing or duty that brings a top speed down to a limit.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
-from reviewer.engineering.motor import TorqueSpeedLine
+from reviewer.engineering.motor import TorqueSpeedLine, drive_force_function
 
 AIR_DENSITY_ISA = 1.225  # kg/m^3, ISA sea level, 15 degC
 STANDARD_GRAVITY = 9.80665  # m/s^2, CGPM 1901
@@ -281,14 +281,24 @@ class Drive:
         return self._drive_force(self.lines(duty), ratio)(speed) > load
 
     def _drive_force(self, lines: list[TorqueSpeedLine], ratio: float) -> Callable[[float], float]:
-        radius, efficiency = self.wheel_radius, self.efficiency
+        return drive_force_function(lines, ratio, self.efficiency, self.wheel_radius)
 
-        def drive_force(speed: float) -> float:
-            omega = motor_speed_for(speed, ratio, radius)
-            torque = sum(line.torque(omega) for line in lines)
-            return wheel_force(torque, ratio, efficiency, radius)
-
-        return drive_force
+    def lines_at(self, voltage: float, extra_resistance: Sequence[float]) -> list[TorqueSpeedLine]:
+        """The lines at full throttle on a pack at ``voltage``, each motor's branch resistance
+        raised by its ``extra_resistance`` (a warm winding): what ``lines()`` gives for a
+        copy of the drive so changed, without building the copy."""
+        shared = len(self.motors) * self.duty * self.duty * self.shared_resistance
+        return [
+            TorqueSpeedLine(
+                kv_rpm_per_v=motor.kv_rpm_per_v,
+                voltage=self.duty * voltage,
+                loop_resistance=(motor.branch_resistance + extra) + shared,
+                no_load_current=motor.no_load_current,
+                current_limit=self.current_limit,
+                battery_limit=self.battery_limit,
+            )
+            for motor, extra in zip(self.motors, extra_resistance, strict=True)
+        ]
 
 
 # Top speed against reduction rises while a drive is under-geared, then falls. Starting from a
