@@ -183,6 +183,48 @@ def test_the_ride_converges_with_its_step() -> None:
     assert result.peak_winding_c == pytest.approx(fine.peak_winding_c, abs=0.5)
 
 
+def test_the_growing_full_throttle_step_keeps_the_fixed_steps_answer() -> None:
+    # numerical analysis (Hairer, Norsett & Wanner, "Solving ODEs I", II.4, from memory): the
+    # Euler / midpoint pair's difference estimates the error, so growing the step only where it
+    # is small gives the fixed 1 s steps' energy, peak and time with fewer steps; a tolerance of
+    # zero never grows the step
+    import tomllib
+
+    from firstride_rules.ride._model import _simulate as ridden
+
+    from reviewer.engineering import ride
+    from reviewer.testing import default_profile, make_build
+
+    build = make_build(
+        tomllib.loads((ROOT / "sample_builds" / "quayside-commuter.toml").read_text())
+    )
+    coarse = ridden(build, default_profile())
+    mass = build.vehicle.mass.m_as("kg") + build.riders[0].mass.m_as("kg")
+
+    def run(tolerance: float) -> ride.RideResult:
+        return ride.simulate(
+            coarse.drive,
+            mass,
+            coarse.segments,
+            coarse.windings,
+            coarse.pack,
+            1.0,
+            cruise_dt=10.0,
+            accel_tolerance=tolerance,
+        )
+
+    fixed, grown = run(0.0), run(0.01)
+    # the controller: h (tol / estimate)^(1/2) x 0.9, at most doubling, within [1 s, 10 s]
+    assert ride._next_step(1.0, 0.0025, 0.01, 1.0, 10.0) == pytest.approx(1.8)
+    assert ride._next_step(4.0, 0.0, 0.01, 1.0, 10.0) == 8.0
+    assert ride._next_step(8.0, 0.0, 0.01, 1.0, 10.0) == 10.0
+    assert ride._next_step(3.0, 0.5, 0.0, 1.0, 10.0) == 1.0
+    assert len(grown.time_s) < 0.9 * len(fixed.time_s)
+    assert grown.wh_per_km() == pytest.approx(fixed.wh_per_km(), rel=1e-3)
+    assert grown.peak_winding_c == pytest.approx(fixed.peak_winding_c, abs=0.1)
+    assert grown.time_s[-1] == pytest.approx(fixed.time_s[-1], abs=1.0)
+
+
 def test_severity_follows_the_peak_against_the_class_limits() -> None:
     # IEC 60034-1 class F: 40 degC + 105 K = 145 degC rise limit; IEC 60085: 155 degC class
     def judged(km: float) -> Severity:

@@ -9,8 +9,11 @@ Quasi-static and deterministic. Each step the operating point is read off the dr
   motors), and I = T / Kt + I0, never above the line. A demand at or below zero (a descent the
   rider holds with the brakes) draws no current; regeneration is left out.
 - from rest (a stop, the start of the ride) or below the cruise speed: full throttle, each
-  motor on its line, a = (F_drive - F_road) / m, an explicit step on speed with the forces at
-  the step's start; a step ends early where the cruise speed or a segment end is reached.
+  motor on its line, a = (F_drive - F_road) / m, a midpoint step on speed (second order); the
+  explicit and the midpoint speed differ by the step's error estimate, and the next step grows
+  from the profile's step, up to the cruise step, while that estimate stays within
+  ``accel_tolerance`` (the usual controller of an embedded pair); a step ends early where the
+  cruise speed or a segment end is reached.
   Braking to a stop is instant and there is no dwell (no cooling credited while stopped).
 
 The lines use the pack's open-circuit voltage at the step's state of charge (rounded down to
