@@ -33,6 +33,11 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--format", choices=["md", "json"], default="md")
     parser.add_argument("-o", "--output", help="write the result here instead of stdout")
     parser.add_argument("--jobs", type=_jobs, default=1, metavar="N", help="processes (0: cores)")
+    parser.add_argument(
+        "--plots",
+        metavar="DIR",
+        help="also draw the sweep as DIR/sweep.svg, linked from the Markdown (the plots extra)",
+    )
 
 
 def run(args: argparse.Namespace) -> int:
@@ -53,10 +58,14 @@ def run(args: argparse.Namespace) -> int:
         loaded.data, axes, profile=args.profile, jobs=args.jobs or (os.cpu_count() or 1)
     )
     limits = envelope(axes, points)
+    chart = _write_chart(args, axes, points) if args.plots else None
     if args.format == "json":
-        text = json.dumps(sweep_json(args.build, axes, points, limits), ensure_ascii=False) + "\n"
+        document = sweep_json(args.build, axes, points, limits)
+        if chart is not None:
+            document["chart"] = chart
+        text = json.dumps(document, ensure_ascii=False) + "\n"
     else:
-        text = sweep_markdown(args.build, axes, points, limits)
+        text = sweep_markdown(args.build, axes, points, limits, chart)
     if args.output:
         from pathlib import Path
 
@@ -68,6 +77,28 @@ def run(args: argparse.Namespace) -> int:
     passing = sum(1 for p in points if p.passes)
     print(f"firstride: {passing} of {len(points)} points go", file=sys.stderr)
     return EXIT_GO if passing else EXIT_FINDINGS
+
+
+def _write_chart(args: argparse.Namespace, axes, points) -> str:
+    """Write ``--plots DIR/sweep.svg`` (a whole, guarded write) and return its link relative to
+    the output's folder."""
+    from pathlib import Path
+
+    from reviewer.errors import InputError
+    from reviewer.output import write_whole
+    from reviewer.plots import INSTALL_HINT, PlotsUnavailable
+    from reviewer.plots.sweep import sweep_svg
+
+    try:
+        svg = sweep_svg(axes, points)
+    except PlotsUnavailable:
+        raise InputError("--plots", "(usage)", f"charts need matplotlib: {INSTALL_HINT}") from None
+    folder = Path(args.plots)
+    folder.mkdir(parents=True, exist_ok=True)
+    path = folder / "sweep.svg"
+    write_whole(path, svg, inputs=[args.build, args.profile])
+    base = Path(args.output).parent if args.output else Path()
+    return Path(os.path.relpath(path, base)).as_posix()
 
 
 def sweep_json(build: str, axes, points, limits) -> dict:
@@ -90,9 +121,12 @@ def sweep_json(build: str, axes, points, limits) -> dict:
     }
 
 
-def sweep_markdown(build: str, axes, points, limits) -> str:
-    from reviewer.report import environment
+def sweep_markdown(build: str, axes, points, limits, chart: str | None = None) -> str:
+    from urllib.parse import quote
 
+    from reviewer.report import Raw, environment
+
+    link = Raw(quote(chart)) if chart else None
     grid = None
     if len(axes) == 2:
         cells = {p.values: p for p in points}
@@ -102,6 +136,6 @@ def sweep_markdown(build: str, axes, points, limits) -> str:
     text = (
         environment()
         .get_template("sweep.md.j2")
-        .render(build=build, axes=axes, points=points, envelope=limits, grid=grid)
+        .render(build=build, axes=axes, points=points, envelope=limits, grid=grid, chart=link)
     )
     return "\n".join(line.rstrip() for line in text.splitlines()) + "\n"

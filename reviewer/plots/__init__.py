@@ -16,6 +16,7 @@ speed against grade            ``grade_chart(build, profile)``; ``grade_data`` /
 current budget                 ``budget_chart(build, profile)``; ``budget_items``;
                                ``budget_svg([(name, carried A, rating A or None), ...])``
 ride                           ``ride_svg(times s, temperatures degC, voltages V, ...)``
+sweep                          ``sweep_svg(axes, points)`` (:mod:`reviewer.sweep`); ``sweep_marks``
 =============================  ==============================================================
 
 The ``*_chart`` functions return None when the build lacks what the chart needs.
