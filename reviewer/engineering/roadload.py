@@ -89,14 +89,16 @@ def bracketed_root(
     high: float,
     tolerance: float = 1e-9,
     max_iterations: int = 200,
+    values: tuple[float, float] | None = None,
 ) -> float:
     """A root of ``function`` between ``low`` and ``high``, whose signs must differ.
 
     Regula falsi with the Illinois modification (the end that stays put has its value halved,
     so both ends close in): a handful of evaluations on smooth curves, and never outside the
     bracket. Stops when the bracket is narrower than ``tolerance`` (relative above 1).
+    ``values``: the function at ``low`` and ``high`` when the caller has them already.
     """
-    f_low, f_high = function(low), function(high)
+    f_low, f_high = (function(low), function(high)) if values is None else values
     if f_low == 0:
         return low
     if f_high == 0:
