@@ -12,6 +12,7 @@ from collections.abc import Sequence
 
 from reviewer.engineering.motor import TorqueSpeedLine
 from reviewer.engineering.roadload import (
+    AIR_DENSITY_ISA,
     Drive,
     bracketed_root,
     ground_speed_for,
@@ -64,16 +65,19 @@ class DriveAt:
         return self._cruise[key]
 
     def _top_speed(self, grade: float, hint: float | None) -> float:
-        d = self.drive
+        d, pull = self.drive, self.pull
+        # road_load_force's terms, hoisted (the same arithmetic): steady + drag v^2
+        steady = road_load_force(self.mass, 0.0, d.rolling_resistance, 0.0, grade)
+        drag = 0.5 * AIR_DENSITY_ISA * d.drag_area
 
         def surplus(v: float) -> float:
-            load = road_load_force(self.mass, v, d.rolling_resistance, d.drag_area, grade)
-            return max(self.pull(v), 0.0) - load
+            return max(pull(v), 0.0) - (steady + drag * v * v)
 
         if hint is not None and hint > 0.0:
             # the pull never rises with speed and the load always does: one crossing, most
-            # often within 0.2 % of the last state's (a narrow bracket closes in fewer steps)
-            for width in (0.002, 0.02):
+            # often within 0.2 % of the last state's (a narrow bracket closes in fewer steps); a
+            # winding heating through a climb moves it further
+            for width in (0.002, 0.02, 0.1):
                 low, high = (1.0 - width) * hint, (1.0 + width) * hint
                 values = surplus(low), surplus(high)
                 if values[0] > 0.0 > values[1]:
