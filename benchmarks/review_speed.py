@@ -13,8 +13,9 @@ each target is printed with its measured value and whether it holds:
 - the sweep at least 2,000 variants/s on one core, and 10,000 points within 5 s on two;
 - a 1,000-build fleet within 3 s in one command on two cores;
 - cost linear in wires, riders and motors: the exponent of the added cost of a build with n of
-  them (beyond one), between the two largest of 1 to 500 wires, 1 to 50 riders and 1 to 8 motors (past a
-  table's cap in the build file, a validated build is extended in memory).
+  them (beyond one), between the two largest counts of 1 to 500 wires, 1 to 50 riders and 1 to
+  8 motors, with the collector set as ``firstride`` sets it (past a table's cap in the build
+  file, a validated build is extended in memory).
 
     python benchmarks/review_speed.py [--runs 15] [--seconds 3] [--quick] [--phases]
 
@@ -25,7 +26,9 @@ each target is printed with its measured value and whether it holds:
 from __future__ import annotations
 
 import argparse
+import contextlib
 import copy
+import gc
 import math
 import os
 import shutil
@@ -35,7 +38,7 @@ import sys
 import tempfile
 import time
 import tomllib
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import Any
 
@@ -180,12 +183,25 @@ def review_ms(build: Any, repeats: int) -> float:
 
     session = open_session()
     times = []
-    for _ in range(repeats + 1):
+    for _ in range(repeats + 1):  # with the collector set as ``firstride`` sets it
         _LAST.clear()
         start = time.perf_counter()
         render_markdown(session.review_build(build))
         times.append(time.perf_counter() - start)
     return statistics.median(times[1:]) * 1000.0
+
+
+@contextlib.contextmanager
+def program_collector() -> Iterator[None]:
+    """The collector's first threshold as ``firstride`` runs with it, restored after."""
+    from reviewer.cli import PROGRAM_GC_THRESHOLD
+
+    before = gc.get_threshold()
+    gc.set_threshold(PROGRAM_GC_THRESHOLD, *before[1:])
+    try:
+        yield
+    finally:
+        gc.set_threshold(*before)
 
 
 def exponent(table: str, counts: tuple[int, ...]) -> tuple[float, list[float]]:
@@ -247,7 +263,8 @@ def main() -> int:
         ("riders", (1, 5, 10, 25, 50)),
         ("motors", (1, 2, 4, 8)),
     ):
-        k, times = exponent(table, counts)
+        with program_collector():
+            k, times = exponent(table, counts)
         shown = ", ".join(f"{n}: {t:.1f}" for n, t in zip(counts, times, strict=True))
         print(f"  {table}: ms per review at {shown}")
         judged(
