@@ -55,7 +55,7 @@ def _process_steps(build: str) -> None:
     import reviewer.build  # noqa: F401
 
     mark("build models")
-    parser, _ = cli._parser()
+    parser, _ = cli._parser(["review", build])
     args = parser.parse_args(["review", build])
     from reviewer.loader import load_build
     from reviewer.profile import load_profile

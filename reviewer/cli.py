@@ -23,7 +23,19 @@ class _Parser(argparse.ArgumentParser):
         self.exit(EXIT_INPUT, f"firstride: {message} (see firstride --help)\n")
 
 
-def _parser() -> tuple[argparse.ArgumentParser, dict[str, object]]:
+def _invoked(argv: Sequence[str]) -> str | None:
+    """The verb ``argv`` names (its first word not an option), if it is one of ours."""
+    first = next((word for word in argv if not word.startswith("-")), None)
+    return first if first in VERBS else None
+
+
+def _parser(
+    argv: Sequence[str] | None = None,
+) -> tuple[argparse.ArgumentParser, dict[str, object]]:
+    """The command line's parser. With ``argv`` naming a verb, only that verb's module is
+    imported and its options added (a review does not pay for the web server's); otherwise,
+    as for ``--help`` or a mistyped verb, every verb's."""
+    invoked = _invoked(sys.argv[1:] if argv is None else argv)
     parser = _Parser(
         prog="firstride",
         description="Design review of a home-built light electric vehicle before its first ride.",
@@ -31,7 +43,7 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, object]]:
     parser.add_argument("--version", action="version", version=f"firstride {__version__}")
     verbs = parser.add_subparsers(dest="verb", required=True, parser_class=_Parser)
     modules: dict[str, object] = {}
-    for name in VERBS:
+    for name in VERBS if invoked is None else (invoked,):
         module = importlib.import_module(f"reviewer.commands.{name.replace('-', '_')}")
         sub = verbs.add_parser(module.NAME, help=module.HELP, description=module.HELP)
         module.add_arguments(sub)
@@ -40,7 +52,7 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, object]]:
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    parser, modules = _parser()
+    parser, modules = _parser(argv)
     args = parser.parse_args(argv)
     try:
         return int(modules[args.verb].run(args))  # type: ignore[attr-defined]
