@@ -204,8 +204,8 @@ def test_the_heat_finding_quotes_its_figures():
         "3.91 W; at 50 K/W that is a 196 K rise over 25 °C"
     )
     assert heat.remedy.startswith(
-        "use a switching regulator rated for at least 42 V input (at about 85 % efficiency it "
-        "draws 14 mA from the pack and dissipates 0.0882 W) or a separate 5 V supply; or keep "
+        "use a switching regulator (logic.regulator.kind) rated for at least 42 V input "
+        "(logic.regulator.input_max; at about 85 % efficiency it draws 14 mA from the pack and dissipates 0.0882 W) or a separate 5 V supply; or keep "
         "this linear regulator only for a load of at most 48 mA (now 100 mA)"
     )
 

@@ -71,3 +71,21 @@ def test_a_remedy_names_the_field_it_changes() -> None:
         "brakes[1].deceleration",
     )
     assert remedy_fields("use a 42 V charger (10 x 4.2 V), e.g. no.field here") == ()
+
+
+#: Rules whose remedy is the rider's conduct, with no value in the build file to change.
+CONDUCT_REMEDIES = {"speed.descent"}
+
+
+def test_every_remedy_in_the_samples_names_the_fields_to_change() -> None:
+    # a builder edits the build file after a review: each stop, fix and advice says where
+    from reviewer.findings import Severity
+
+    unnamed = []
+    for path in sorted((ROOT / "sample_builds").glob("*.toml")):
+        for finding in review_file(path).findings:
+            acted = finding.severity in (Severity.STOP, Severity.FIX, Severity.ADVISE)
+            if acted and finding.remedy and finding.rule_id not in CONDUCT_REMEDIES:
+                if not remedy_fields(finding.remedy):
+                    unnamed.append((path.name, finding.rule_id, finding.remedy[:80]))
+    assert not unnamed

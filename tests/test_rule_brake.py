@@ -190,7 +190,10 @@ def test_lower_resistor_in_the_advice_passes_when_rerun() -> None:
         friction=True,
     )
     finding = by_subject(data)["dynamic braking, rider 'Ada'"]
-    match = re.search(r"brake resistor to at most ([\d.]+) ohm", finding.remedy or "")
+    match = re.search(
+        r"brake resistor \(brakes\[\]\.brake_resistance\) to at most ([\d.]+) ohm",
+        finding.remedy or "",
+    )
     assert match, finding.remedy
     data["brakes"][0]["brake_resistance"] = f"{match.group(1)} ohm"
     assert by_subject(data)["dynamic braking, rider 'Ada'"].severity is Severity.PASS

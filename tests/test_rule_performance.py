@@ -112,7 +112,10 @@ def test_stall_remedies_climb_when_rerun() -> None:
     data = kart(controller={"motor_current_limit": "20 A"})
     finding = climb(data)
     teeth = re.search(r"motor pulley of (\d+) teeth", finding.remedy or "")
-    limit = re.search(r"current limit to at least (\d+) A", finding.remedy or "")
+    limit = re.search(
+        r"current limit \(controller\.motor_current_limit\) to at least (\d+) A",
+        finding.remedy or "",
+    )
     assert teeth and limit, finding.remedy
     assert int(teeth.group(1)) == 9
     assert int(limit.group(1)) == 27

@@ -76,7 +76,7 @@ def test_no_pack_fuse_and_no_current_limit_is_stop():
     # breaking: 42 V / (10 x 30 mOhm + 1 m of 12 AWG) (Ohm's law, CRC table)
     fault = FULL / (0.3 + loop_ohms(12, 1.0))
     assert finding.remedy == (
-        "fit a 10-20 A DC-rated fuse, rated at least 42 V DC, at the battery positive, "
+        "fit a 10-20 A DC-rated fuse (fuses[].rating), rated at least 42 V DC, at the battery positive, "
         f"with a breaking capacity of at least {int(fault) + 1} A"
     )
 
@@ -114,7 +114,9 @@ def test_fuse_rating_against_the_wire(gauge, rating, severity, ceiling):
     assert finding.limit.m_as("A") == pytest.approx(ceiling)
     assert finding.comparison is Comparison.AT_MOST
     if severity is Severity.FIX:
-        assert finding.remedy == f"fit a 12-{ceiling} A DC-rated fuse"  # IEC 60364-4-43 433.1
+        assert (
+            finding.remedy == f"fit a 12-{ceiling} A DC-rated fuse (fuses[].rating)"
+        )  # IEC 60364-4-43 433.1
 
 
 def test_fuse_below_the_design_current_is_fix():
@@ -125,7 +127,7 @@ def test_fuse_below_the_design_current_is_fix():
     assert finding.severity is Severity.FIX
     assert finding.comparison is Comparison.AT_LEAST
     assert finding.limit.m_as("A") == pytest.approx(12.12)
-    assert finding.remedy == "fit a 13-20 A DC-rated fuse"
+    assert finding.remedy == "fit a 13-20 A DC-rated fuse (fuses[].rating)"
 
 
 def test_no_rating_fits_when_the_wire_is_too_light():
@@ -233,7 +235,7 @@ def test_a_fuse_within_the_bound_still_needs_the_thin_wires_datasheet():
     assert finding.missing == ("wires[0].rated_ampacity", "wires[1].rated_ampacity")
     assert finding.remedy == (
         "fit a 2-7 A DC-rated fuse (and within the ampacity of wires 'pack positive' and "
-        "'pack negative', which the build does not give)"
+        "'pack negative', which the build does not give) (fuses[].rating)"
     )
 
 
@@ -371,4 +373,6 @@ def test_window_without_a_known_design_current_gives_the_upper_bound():
     del data["motors"][0]["rated_current"]
     finding = by_subject(data)["fuse 'main' rating"]
     assert finding.severity is Severity.FIX
-    assert finding.remedy == "fit a DC-rated fuse of at most 20 A, above the drive's normal current"
+    assert finding.remedy == (
+        "fit a DC-rated fuse of at most 20 A, above the drive's normal current (fuses[].rating)"
+    )

@@ -185,7 +185,7 @@ def test_duty_remedy_meets_the_limit_when_rerun() -> None:
     data = kart(riders=[rider("Kim", "30 kg", "child")])
     finding = finding_for(run_rule_on(RULE, data), "Kim")
     assert finding.severity is Severity.STOP
-    match = re.search(r"max duty \(speed setting\) at or below (\d+) %", finding.remedy or "")
+    match = re.search(r"controller\.max_duty\) at or below (\d+) %", finding.remedy or "")
     assert match, finding.remedy
     percent = int(match.group(1))
     rerun = finding_for(

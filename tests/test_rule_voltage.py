@@ -90,8 +90,8 @@ def test_switch_remedy_offers_a_freewheel_diode():
     remedy = findings(controller=controller)["motor switch"].remedy
     # 84 V without a diode; 52.5 V rounds up to 53 V with one
     assert remedy == (
-        "use a switch rated at least 84 V, or fit a freewheel diode across the motor, "
-        "after which 53 V suffices"
+        "use a switch rated at least 84 V (controller.switch_max_voltage), or fit a freewheel "
+        "diode across the motor (controller.freewheel_diode), after which 53 V suffices"
     )
     clamped = {
         "switch_max_voltage": "53 V",

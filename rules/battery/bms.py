@@ -95,8 +95,9 @@ def _discharge(build: Build, battery: Battery, bms: Bms) -> Iterator[Output]:
             "controller's cut-off and the fuse.",
             measured="charge only",
             limit="discharge guarded",
-            remedy="fit a BMS that switches the discharge path (rated for the drive's current), "
-            "or make sure the controller's low-voltage cut-off and the fuse cover it",
+            remedy="fit a BMS that switches the discharge path (rated for the drive's current; "
+            "then battery.bms.guards_discharge = true), or make sure the controller's "
+            "low-voltage cut-off and the fuse cover it",
             sources=(CUT_AT_SPEED,),
         )
         return
@@ -150,12 +151,19 @@ def _discharge(build: Build, battery: Battery, bms: Bms) -> Iterator[Output]:
             measured=u.quantity(amps, _A),
             limit=u.quantity(limit, _A),
             comparison=Comparison.AT_MOST,
-            remedy=f"fit a BMS rated for at least {f(amps)} A, or lower "
+            remedy=f"fit a BMS rated for at least {f(amps)} A (battery.bms), or lower "
             f"controller.battery_current_limit to {f(limit)} A"
             if over
             else None,
             sources=(BMS_RATINGS, CUT_AT_SPEED),
         )
+
+
+#: The build field that sets each charge current, for the remedy to name.
+_SETTING = {
+    "the charger": " (charger.current)",
+    "regenerative braking": " (controller.regen_current_limit)",
+}
 
 
 def _charge(build: Build, bms: Bms) -> Finding:
@@ -197,8 +205,8 @@ def _charge(build: Build, bms: Bms) -> Finding:
         measured=u.quantity(amps, _A),
         limit=u.quantity(rating, _A),
         comparison=Comparison.AT_MOST,
-        remedy=f"keep {name}'s current at or below {f(rating)} A, or fit a BMS rated for "
-        f"{f(amps)} A charge"
+        remedy=f"keep {name}'s current at or below {f(rating)} A{_SETTING.get(name, '')}, or "
+        f"fit a BMS rated for {f(amps)} A charge (battery.bms.charge_current)"
         if over
         else None,
         sources=(BMS_RATINGS,),

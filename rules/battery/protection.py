@@ -117,7 +117,8 @@ def _bms_finding(battery: Battery) -> Finding:
         "cell being overcharged or drained while the pack voltage looks normal, and an abused "
         "lithium cell can catch fire.",
         remedy=f"fit a {series}S {_chemistry(battery)} battery management system "
-        "(per-cell over-charge and over-discharge cut-off, over-current cut-off)",
+        "(per-cell over-charge and over-discharge cut-off, over-current cut-off), then "
+        "describe it as battery.bms",
         sources=(CELL_PROTECTION, CELL_LIMITS),
     )
 

@@ -108,7 +108,8 @@ def deceleration_findings(
     if short:
         remedy = (
             f"fit a friction brake that reaches at least {f(full)} m/s² with this brake, and "
-            f"at least {f(full * float(fraction.value))} m/s² on its own"  # type: ignore[arg-type]
+            f"at least {f(full * float(fraction.value))} m/s² on its own (then a [[brakes]] "
+            'entry: brakes[].kind = "friction", brakes[].deceleration)'  # type: ignore[arg-type]
             if not beside_friction
             else share_remedy(drive, loops, speed, mass, needed, full)
         )

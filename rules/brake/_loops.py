@@ -89,9 +89,11 @@ def contact_remedy(
     coefficient = force_per_speed(drive, loops, resistor)
     return (
         f"fit a brake resistor of at least {resistor:.2f} ohm in the loop "
+        f"(brakes[].brake_resistance) "
         f"({f(emf / (loop.fixed + resistor))} A at top speed, leaving about "
         f"{f(coefficient * speed / mass)} m/s² of braking there), or relay contacts rated for "
-        f"at least {math.ceil(current - 1e-9)} A DC, or let the relay close only below "
+        f"at least {math.ceil(current - 1e-9)} A DC (brakes[].relay_contact_rating), or let "
+        f"the relay close only below "
         f"{f(ms_to_kmh(ground))} km/h"
     )
 
@@ -121,7 +123,8 @@ def share_remedy(
             high = middle
     resistor = math.floor(low * 100.0) / 100.0
     return (
-        f"{text}, or lower the brake resistor to at most {resistor:.2f} ohm "
+        f"{text}, or lower the brake resistor (brakes[].brake_resistance) to at most "
+        f"{resistor:.2f} ohm "
         f"({f(decel(resistor))} m/s²)"
     )
 

@@ -153,7 +153,8 @@ def _full_pack(build: Build, profile: Profile, battery: Battery, current: float 
             text + " It is the only brake: the rider then has none.",
             measured="no brake on a full pack",
             limit="a brake that does not depend on the pack's charge",
-            remedy="fit a friction brake (disc, drum or rim) that stops the vehicle on its own",
+            remedy="fit a friction brake (disc, drum or rim) that stops the vehicle on its own "
+            '(then a [[brakes]] entry: brakes[].kind = "friction", brakes[].deceleration)',
             sources=(FULL_PACK, OHM_LAW),
         )
     return Finding(

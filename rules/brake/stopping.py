@@ -53,6 +53,9 @@ FLAT = Source(
 _M = u.unit("m")
 _MS2 = u.unit("m/s**2")
 
+#: Where a fitted friction brake goes in the build file, for a remedy to name.
+_FRICTION_FIELDS = 'then a [[brakes]] entry: brakes[].kind = "friction", brakes[].deceleration'
+
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
     """Each rider's stopping distance from the build's top speed and its steepest descent's
@@ -109,7 +112,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             measured="none",
             limit="a brake",
             remedy="fit a friction brake (disc, drum or rim) that reaches "
-            f"{u.format_number(needed)} m/s² and holds the vehicle on a slope",
+            f"{u.format_number(needed)} m/s² and holds the vehicle on a slope ({_FRICTION_FIELDS})",
             sources=(INDEPENDENT, minimum.source),
         )
         return
@@ -167,7 +170,7 @@ def _independence(build: Build, profile: Profile, needed: float, minimum: Limit)
         measured="none",
         limit="a friction or foot brake",
         remedy="fit a friction brake (disc, drum or rim) that reaches at least "
-        f"{u.format_number(needed * fraction)} m/s² on its own",
+        f"{u.format_number(needed * fraction)} m/s² on its own ({_FRICTION_FIELDS})",
         sources=(INDEPENDENT, minimum.source),
     )
 
@@ -321,7 +324,8 @@ def _case(
         remedy = (
             f"brakes that reach at least {f(target)} m/s² {who} {place}"
             + (f" (the slope takes {f(pull)} m/s²)" if pull > 0 else "")
-            + "; a front brake uses the most of the tyres' grip"
+            + " (each brake's brakes[].deceleration, measured as described there); a front "
+            "brake uses the most of the tyres' grip"
         )
     sources = [KINEMATICS, minimum.source, profile.limit("brake.tyre_friction.dry").source]
     if which == "lost":

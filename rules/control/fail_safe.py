@@ -211,7 +211,7 @@ def _kill(kill: bool | None) -> Finding:
         measured="none",
         limit="a kill switch or lanyard",
         remedy="fit a kill switch or a lanyard that opens the controller's enable or power "
-        "line, within reach while riding",
+        "line, within reach while riding (then control.kill_switch = true)",
         sources=(UNINTENDED_START, PRACTICE),
     )
 

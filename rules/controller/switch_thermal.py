@@ -311,7 +311,7 @@ def _remedy(switch: _Switch, load: _Duty, power: float, p_sw: float) -> str:
     if sink > 0:
         options.append(
             f"fit a heatsink of at most {f(floor_significant(sink))} K/W sink to air "
-            f"(now {f(switch.sink_air)} K/W)"
+            f"(controller.switch_thermal_resistance_sink_air, now {f(switch.sink_air)} K/W)"
         )
     amps = largest_current(
         load.ambient,
@@ -327,13 +327,17 @@ def _remedy(switch: _Switch, load: _Duty, power: float, p_sw: float) -> str:
         options.append(f"set controller.motor_current_limit at or below {floor_tenth(amps):g} A")
     else:
         options.append(
-            f"fit a current limit at or below {floor_tenth(amps):g} A (without one the switch "
-            f"carries the stall current, {f(load.current)} A)"
+            f"fit a current limit at or below {floor_tenth(amps):g} A "
+            f"(controller.motor_current_limit; without one the switch carries the stall "
+            f"current, {f(load.current)} A)"
         )
     budget = (load.target - load.ambient) / switch.thermal_resistance - p_sw
     if budget > 0:
         ohms = budget / (load.current * load.current * load.duty * load.hot_factor)
-        options.append(f"use a switch of at most {f(floor_significant(ohms) * 1000)} mΩ at 25 °C")
+        options.append(
+            f"use a switch of at most {f(floor_significant(ohms) * 1000)} mΩ at 25 °C "
+            "(controller.switch_on_resistance)"
+        )
     return ", or ".join(options)
 
 

@@ -161,7 +161,8 @@ def _ip_finding(
         measured=code.text,
         limit=minimum.text,
         comparison=Comparison.AT_LEAST,
-        remedy=f"fit {required_code_text(minimum)}",
+        remedy=f"fit {required_code_text(minimum)} (then "
+        f"enclosure.{'battery_ip' if is_battery else 'electronics_ip'})",
         sources=sources,
     )
 
@@ -229,7 +230,8 @@ def _housing(
             "where kerbs, stones and ground strikes reach it; a crushed or punctured lithium "
             "cell can short internally and burn.",
             remedy=f"house the cells in a rigid, impact-resistant case{rated} padded inside "
-            "and fixed to the deck (e.g. an aluminium or polycarbonate box)",
+            "and fixed to the deck (e.g. an aluminium or polycarbonate box; then "
+            "enclosure.battery_hard_case = true and enclosure.battery_ip)",
             sources=sources,
         )
     else:

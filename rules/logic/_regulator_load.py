@@ -130,7 +130,8 @@ def heat_remedy(
     )
     drawn = switching_input_current(vin, vout, load, efficiency)
     parts = [
-        f"use a switching regulator rated for at least {math.ceil(vin)} V input (at about "
+        f"use a switching regulator (logic.regulator.kind) rated for at least "
+        f"{math.ceil(vin)} V input (logic.regulator.input_max; at about "
         f"{f(efficiency * 100)} % efficiency it draws {f(drawn * 1000)} mA from the pack and "
         f"dissipates {f(switching_loss(vout, load, efficiency))} W) or a separate "
         f"{f(vout)} V supply"

@@ -67,3 +67,20 @@ def grade(measured: float, maximum: float, allowed: float) -> Severity:
     if measured > allowed:
         return Severity.FIX
     return Severity.PASS
+
+
+def diode_words(load: PinLoad) -> str:
+    """How the load's flyback diode reads in a rationale."""
+    if load.inductive is None:
+        return "; whether it is inductive is not stated, and its flyback diode covers either case"
+    return "; flyback diode fitted" if load.inductive else ""
+
+
+def driver_words(load: PinLoad) -> str:
+    """What drives the load, as a rationale says it."""
+    return {
+        "pin": "logic pins directly",
+        "transistor": "a transistor",
+        "mosfet": "a MOSFET",
+        "driver-ic": "a driver IC",
+    }[load.driver]

@@ -7,6 +7,8 @@ from collections.abc import Iterator
 
 from firstride_rules.logic._tally import (
     Tally,
+    diode_words,
+    driver_words,
     grade,
     ma,
     number,
@@ -127,7 +129,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
         if load.inductive is None and not (load.flyback_diode is True and load.driver != "pin"):
             yield _unknown_coil(load, index)
             continue
-        yield _load_finding(load, drawn[load.name], imbalance, imbalance_limit)
+        yield _load_finding(load, index, drawn[load.name], imbalance, imbalance_limit)
 
     tallies = pin_tallies(logic, drawn, imbalance)
     yield from _pin_findings(logic, tallies, pin_fraction, profile, imbalance)
@@ -159,12 +161,6 @@ def _driver_assumptions(logic: Logic) -> Iterator[Assumption]:
         )
 
 
-def _diode_words(load: PinLoad) -> str:
-    if load.inductive is None:
-        return "; whether it is inductive is not stated, and its flyback diode covers either case"
-    return "; flyback diode fitted" if load.inductive else ""
-
-
 def _unknown_coil(load: PinLoad, index: int) -> Finding:
     """A load whose inductance is not stated: it may be a relay, solenoid or motor coil, whose
     turn-off spike needs a flyback path, so it is never passed as a plain resistive load."""
@@ -180,7 +176,9 @@ def _unknown_coil(load: PinLoad, index: int) -> Finding:
     )
 
 
-def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit: Limit) -> Finding:
+def _load_finding(
+    load: PinLoad, index: int, drawn: float, imbalance: float, imbalance_limit: Limit
+) -> Finding:
     subject = f"load '{load.name}'"
     pins = pins_of(load)
     current = in_unit(load.current, MA)
@@ -202,10 +200,16 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
         issues.append(
             (Severity.FIX, f"The coil is driven straight from logic pin(s) {', '.join(pins)}.")
         )
-        remedies.append(f"{COIL_REMEDY} ({diode_rating})")
+        remedies.append(
+            f"{COIL_REMEDY} ({diode_rating}; then logic.loads[{index}].driver and "
+            f"logic.loads[{index}].flyback_diode = true)"
+        )
         sources.append(FLYBACK_PRACTICE)
     elif load.inductive and load.flyback_diode is not True:
-        remedies.append(f"fit a flyback diode across the coil ({diode_rating})")
+        remedies.append(
+            f"fit a flyback diode across the coil ({diode_rating}; then "
+            f"logic.loads[{index}].flyback_diode = true)"
+        )
     if len(pins) > 1:
         share = even_share(drawn, len(pins))
         worst = worst_pin_current(drawn, len(pins), imbalance)
@@ -218,14 +222,17 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
             )
         )
         if not (load.inductive and load.driver == "pin"):
-            remedies.append(f"drive '{load.name}' from one pin and {SWITCH_REMEDY}")
+            remedies.append(
+                f"drive '{load.name}' from one pin and {SWITCH_REMEDY} "
+                f"(logic.loads[{index}].pins, logic.loads[{index}].driver)"
+            )
         sources.append(imbalance_limit.source)
     if not issues:
         return Finding(
             severity=Severity.PASS,
             subject=subject,
-            rationale=f"{ma(current)} load driven by {_driver_words(load)} on "
-            f"{', '.join(pins)}{_diode_words(load)}.",
+            rationale=f"{ma(current)} load driven by {driver_words(load)} on "
+            f"{', '.join(pins)}{diode_words(load)}.",
             measured=quantity(drawn, MA),
             sources=(DATASHEET,),
         )
@@ -233,21 +240,12 @@ def _load_finding(load: PinLoad, drawn: float, imbalance: float, imbalance_limit
     return Finding(
         severity=severity,
         subject=subject,
-        rationale=f"{ma(current)} load driven by {_driver_words(load)}. "
+        rationale=f"{ma(current)} load driven by {driver_words(load)}. "
         + " ".join(text for _, text in issues),
         measured=quantity(drawn, MA),
         remedy="; ".join(remedies) or None,
         sources=tuple(dict.fromkeys(sources)),
     )
-
-
-def _driver_words(load: PinLoad) -> str:
-    return {
-        "pin": "logic pins directly",
-        "transistor": "a transistor",
-        "mosfet": "a MOSFET",
-        "driver-ic": "a driver IC",
-    }[load.driver]
 
 
 def _pin_findings(
@@ -284,7 +282,7 @@ def _pin_findings(
             remedy = (
                 f"keep each pin at or below {ma(allowed)}: move {excess} mA off pin {pin}, "
                 f"e.g. drive {quoted(tally.loads)} through a logic-level MOSFET or NPN "
-                "transistor"
+                "transistor (logic.loads[].pins, logic.loads[].driver)"
             )
         yield Finding(
             severity=severity,

@@ -121,8 +121,9 @@ def gearing_remedy(build: Build, climb: Climb, current_cap: float | None) -> str
             if climb.holds(wheel / teeth, current_cap):
                 current = climb.needed_current(wheel / teeth)
                 return (
-                    f"fit a motor pulley of {teeth} teeth or fewer with the {wheel}-tooth "
-                    f"wheel pulley ({f(current)} A per motor on the climb)"
+                    f"fit a motor pulley of {teeth} teeth or fewer "
+                    f"(drivetrain.motor_pulley_teeth) with the {wheel}-tooth wheel pulley "
+                    f"({f(current)} A per motor on the climb)"
                 )
         return None
     present = climb.drive.reduction
@@ -148,7 +149,7 @@ def gearing_remedy(build: Build, climb: Climb, current_cap: float | None) -> str
         return None
     return (
         f"use a reduction of at least {rounded:.2f}:1 motor turns per wheel turn "
-        f"({f(climb.needed_current(rounded))} A per motor on the climb)"
+        f"(drivetrain.ratio; {f(climb.needed_current(rounded))} A per motor on the climb)"
     )
 
 
@@ -165,7 +166,8 @@ def stall_remedy(build: Build, climb: Climb, needed: float) -> str:
         )
         if raised.holds():
             parts.append(
-                f"raise the controller's current limit to at least {amps} A per motor "
+                f"raise the controller's current limit (controller.motor_current_limit) to at "
+                f"least {amps} A per motor "
                 "(check the wiring and motor heating at that current)"
             )
     if not parts:

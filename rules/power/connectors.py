@@ -243,7 +243,7 @@ def _precharge(
         measured="no pre-charge",
         limit=f"pre-charge above {f(threshold)} V",
         remedy="fit an anti-spark connector or a pre-charge resistor and switch on the "
-        "battery side",
+        'battery side (connectors[].kind = "anti-spark" or connectors[].precharge = true)',
         sources=(limit.source,),
     )
 

@@ -73,15 +73,18 @@ def _window(build: Build, design: Design, capacity: Capacity) -> str:
         unrated = f" (and within the ampacity of {wires} {listed}, which the build does not give)"
     if design.missing:
         high = math.floor(capacity.current + _EPSILON)
-        return f"fit a DC-rated fuse of at most {high} A, above the drive's normal current{unrated}"
+        return (
+            f"fit a DC-rated fuse of at most {high} A, above the drive's normal current{unrated} "
+            "(fuses[].rating)"
+        )
     window = rating_window(design.current, capacity.current)
     if window is not None:
         amps = f"{window[0]} A" if window[0] == window[1] else f"{window[0]}-{window[1]} A"
-        return f"fit a {amps} DC-rated fuse{unrated}"
+        return f"fit a {amps} DC-rated fuse{unrated} (fuses[].rating)"
     remedy = (
         f"no fuse rating fits between the {_n(design.current)} A design current and the "
         f"{_n(capacity.current)} A wire '{capacity.wire}' may be protected at: use wire there "
-        f"that may be protected at {low} A or more"
+        f"that may be protected at {low} A or more (its wires[].gauge)"
     )
     aux = figures.auxiliary_current(build).current
     if figures.any_limit(build) and build.motors:

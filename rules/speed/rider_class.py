@@ -240,8 +240,8 @@ def _gearing_remedy(build: Build, drive: Drive, mass: float, limit_ms: float) ->
             return None
         speed = drive.top_speed(mass, reduction=wheel_teeth / teeth)
         return (
-            f"fit a motor pulley of {teeth} teeth or fewer with the {wheel_teeth}-tooth "
-            f"wheel pulley ({f(ms_to_kmh(speed))} km/h)"
+            f"fit a motor pulley of {teeth} teeth or fewer (drivetrain.motor_pulley_teeth) "
+            f"with the {wheel_teeth}-tooth wheel pulley ({f(ms_to_kmh(speed))} km/h)"
         )
     reduction = smallest_reduction_within(drive, mass, limit_ms, _MAX_REDUCTION)
     if reduction is None:
@@ -249,7 +249,7 @@ def _gearing_remedy(build: Build, drive: Drive, mass: float, limit_ms: float) ->
     speed = drive.top_speed(mass, reduction=reduction)
     return (
         f"use a reduction of at least {reduction:.2f}:1 motor turns per wheel turn "
-        f"({f(ms_to_kmh(speed))} km/h)"
+        f"(drivetrain.ratio; {f(ms_to_kmh(speed))} km/h)"
     )
 
 
@@ -259,8 +259,8 @@ def _duty_remedy(drive: Drive, mass: float, limit_ms: float) -> str | None:
         return None
     speed = drive.top_speed(mass, duty=percent / 100.0)
     return (
-        f"set the controller's max duty (speed setting) at or below {percent} % "
-        f"({u.format_number(ms_to_kmh(speed))} km/h)"
+        f"set the controller's max duty (speed setting, controller.max_duty) at or below "
+        f"{percent} % ({u.format_number(ms_to_kmh(speed))} km/h)"
     )
 
 

@@ -151,10 +151,14 @@ def _switch_parts(
             "unclamped turn-off spike.",
             bare_source,
         )
-    remedy = f"use a switch rated at least {whole_volts_up(full * factor)}"
+    remedy = (
+        f"use a switch rated at least {whole_volts_up(full * factor)} "
+        "(controller.switch_max_voltage)"
+    )
     if not diode:
         remedy += (
-            f", or fit a freewheel diode across the motor, after which "
+            f", or fit a freewheel diode across the motor (controller.freewheel_diode), after "
+            f"which "
             f"{whole_volts_up(full * clamped)} suffices"
         )
     switch = VoltageRating(

@@ -246,7 +246,7 @@ def wire_remedy(
     )
     parts: list[str] = []
     if lightest is not None:
-        parts.append(f"use {awg_label(lightest)} or heavier")
+        parts.append(f"use {awg_label(lightest)} or heavier (wires[{wire.index}].gauge)")
     elif heavier:
         parts.append(f"no heavier size up to {awg_label(heavier[-1])} passes on the tables")
     if verdict.acting is not None and verdict.survives is False:
@@ -259,14 +259,18 @@ def wire_remedy(
     over_bound = verdict.ampacity is None and verdict.carries is False
     if factor > 0 and not over_bound:
         needed = (verdict.stall if verdict.acting is None else verdict.design) / factor
-        parts.append(f"a wire of this size with a datasheet ampacity of at least {_up(needed)}")
+        parts.append(
+            f"a wire of this size with a datasheet ampacity of at least {_up(needed)} (given "
+            f"as wires[{wire.index}].rated_ampacity)"
+        )
     motors = len(ctx.loop.branch_current) if wire.motor is None else 1
     if verdict.acting is None and verdict.ampacity is not None:
         parts.append(
             f"stop the stall being sustained: a fuse on this wire rated at most "
             f"{_down(verdict.ampacity.current)} that clears {format_number(verdict.stall)} A "
-            f"(give its clearing_time), or a hardware current limit of at most "
-            f"{_down(verdict.ampacity.current / motors)} per motor"
+            f"(a [[fuses]] entry with fuses[].rating and fuses[].clearing_time), or a hardware "
+            f"current limit of at most {_down(verdict.ampacity.current / motors)} per motor "
+            f"({_limit_field(wire)})"
         )
     elif verdict.acting is None and over_bound and verdict.bound is not None:
         share = f" (per motor, 1/{motors} of it)" if motors > 1 else ""
@@ -278,6 +282,16 @@ def wire_remedy(
             f"{_up(verdict.bound.current)}"
         )
     return "; or ".join(parts)
+
+
+def _limit_field(wire: Conductor) -> str:
+    """The controller limit that holds this wire's current: the battery-side one for a
+    battery wire, the motor one for a motor or phase lead."""
+    return (
+        "controller.battery_current_limit"
+        if wire.motor is None
+        else ("controller.motor_current_limit")
+    )
 
 
 def running_temperature(

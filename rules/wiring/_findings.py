@@ -245,7 +245,7 @@ def path_finding(ctx: StallContext, motor: str, wires: list[Conductor]) -> Findi
             advice = "shorten the wires: no single size up to 4/0 AWG brings the drop within limit"
         else:
             gauge, resized = found
-            names = ", ".join(f"'{w.name}'" for w in resized)
+            names = ", ".join(f"'{w.name}' (wires[{w.index}].gauge)" for w in resized)
             advice = f"use {awg_label(gauge)} or heavier for {names}"
     return Finding(
         Severity.PASS if advice is None else Severity.ADVISE,
