@@ -324,7 +324,7 @@ def _case(
         remedy = (
             f"brakes that reach at least {f(target)} m/s² {who} {place}"
             + (f" (the slope takes {f(pull)} m/s²)" if pull > 0 else "")
-            + " (each brake's brakes[].deceleration, measured as described there); a front "
+            + " (each brake's brakes[].deceleration); a front "
             "brake uses the most of the tyres' grip"
         )
     sources = [KINEMATICS, minimum.source, profile.limit("brake.tyre_friction.dry").source]
