@@ -33,10 +33,11 @@ import pint
 
 from reviewer import quantity_text as qt
 from reviewer import units as u
-from reviewer.engineering.ingress import IngressCode, parse_ip_code
+from reviewer.error_collector import Collector
 from reviewer.errors import InputError
-from reviewer.findings import Finding, Severity, Source, SourceStatus
+from reviewer.findings import Finding, Severity
 from reviewer.names import PACK_NAME_RE, RULE_ID_RE
+from reviewer.profile_limits import Limit, flatten_limits
 from reviewer.rule_settings import RuleSetting, parse_rule_setting, suggest
 from reviewer.watchdog import DEFAULT_BUDGET_S
 
@@ -44,7 +45,6 @@ DEFAULT_PROFILE = "default.toml"
 #: The word ``extends`` uses for the profile shipped with the tool.
 BUILT_IN = "default"
 MAX_EXTENDS_DEPTH = 16
-_STATUS = {s.value: s for s in SourceStatus}
 #: The top-level tables a profile may have; anything else is a typo that would drop limits.
 TABLES = ("profile", "limits", "rules", "waivers")
 _PROFILE_KEYS = (
@@ -56,24 +56,7 @@ _PROFILE_KEYS = (
     "rule_time_budget",
 )
 #: A limit value that is an IP code ("IP54", "IPX5/IPX7").
-_IP_LIKE = re.compile(r"^\s*IP[0-9X]", re.IGNORECASE)
 _BUDGET = u.Dimension("s", "2 s", "a duration", 0.0, 600.0, allow_zero=True)
-
-
-@dataclass(frozen=True)
-class Limit:
-    key: str
-    value: pint.Quantity | IngressCode | float | str | bool
-    source: Source
-
-    @property
-    def quantity(self) -> pint.Quantity:
-        if not isinstance(self.value, pint.Quantity):
-            raise TypeError(f"profile limit {self.key} is not a quantity")
-        return self.value
-
-    def magnitude(self, unit: str) -> float:
-        return float(self.quantity.m_as(unit))
 
 
 class MissingLimit(KeyError):
@@ -144,63 +127,6 @@ class Profile:
 # --- parsing ----------------------------------------------------------------------------------
 
 
-def _parse_limit(key: str, table: dict[str, Any], where: str) -> Limit:
-    allowed = {"value", "source", "status"}
-    unknown = set(table) - allowed
-    if unknown:
-        raise InputError(where, f"limits.{key}", f"unknown key {sorted(unknown)[0]!r} in a limit")
-    source = table.get("source")
-    if not isinstance(source, str) or not source.strip():
-        raise InputError(where, f"limits.{key}.source", "every limit needs a source (text)")
-    status_text = table.get("status", "published")
-    status = _STATUS.get(status_text)
-    if status is None:
-        raise InputError(where, f"limits.{key}.status", f"one of {', '.join(sorted(_STATUS))}")
-    raw = table["value"]
-    value: pint.Quantity | IngressCode | float | str | bool
-    if isinstance(raw, bool):
-        value = raw
-    elif isinstance(raw, int | float):
-        value = float(raw)
-    elif isinstance(raw, str) and raw[:1].isdigit():
-        try:
-            value = qt.parse_quantity(raw, _guess_dimension(raw))
-        except u.QuantityError as exc:
-            raise InputError(where, f"limits.{key}.value", str(exc)) from None
-    elif isinstance(raw, str) and _IP_LIKE.match(raw):
-        try:  # an IP code is parsed here, once, like a build file's
-            value = parse_ip_code(raw)
-        except ValueError as exc:
-            raise InputError(where, f"limits.{key}.value", str(exc)) from None
-    elif isinstance(raw, str):
-        value = raw
-    else:
-        raise InputError(where, f"limits.{key}.value", "a number, a quantity string or text")
-    return Limit(key, value, Source(source.strip(), status))
-
-
-def _guess_dimension(text: str) -> u.Dimension:
-    """A profile value's dimension is whatever its unit says; parse with a permissive spec."""
-    match = qt.QUANTITY_RE.match(text)
-    unit = match["unit"].replace("^", "**") if match else "dimensionless"
-    try:
-        units = u.unit(unit)  # cached: profiles repeat a handful of units
-    except Exception:  # noqa: BLE001 - reported as an unknown unit by parse_quantity
-        return u.Dimension("dimensionless", "1", "a quantity")
-    return u.Dimension(str(units), text, "a quantity", allow_zero=True)
-
-
-def _flatten(tree: dict[str, Any], prefix: str, where: str, out: dict[str, Limit]) -> None:
-    for key, item in tree.items():
-        path = f"{prefix}.{key}" if prefix else key
-        if not isinstance(item, dict):
-            raise InputError(where, f"limits.{path}", "a table with value, source and status")
-        if "value" in item:
-            out[path] = _parse_limit(path, item, where)
-        else:
-            _flatten(item, path, where, out)
-
-
 def parse_limits(text: str, where: str) -> dict[str, Limit]:
     """The ``[limits]`` of a TOML text (a rule pack's default limits, for instance)."""
     data = _toml(text, where)
@@ -208,7 +134,9 @@ def parse_limits(text: str, where: str) -> dict[str, Limit]:
     if unknown:
         raise InputError(where, unknown[0], "only [limits.*] tables")
     limits: dict[str, Limit] = {}
-    _flatten(_table(data, "limits", where), "", where, limits)
+    errors = Collector(where, text)
+    flatten_limits(_table(data, "limits", where), "", where, limits, errors)
+    errors.raise_any()
     return limits
 
 
@@ -247,36 +175,52 @@ def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
     """The profile over everything it extends, switched-off rules still listed as mandatory
     (a profile further down may switch them back on)."""
     data = _toml(text, where)
+    errors = Collector(where, text)  # every mistake of this file at once, each at its line
     for table in data:
         if table not in TABLES:
-            raise InputError(where, table, f"no such table{suggest(table, TABLES)}")
+            errors.add(InputError(where, table, f"no such table{suggest(table, TABLES)}"))
     meta = data.get("profile")
     if not isinstance(meta, dict) or not isinstance(meta.get("name"), str):
-        raise InputError(where, "profile.name", "a [profile] table with a name")
+        errors.add(InputError(where, "profile.name", "a [profile] table with a name"))
+        meta = meta if isinstance(meta, dict) else {}
     for key in meta:
         if key not in _PROFILE_KEYS:
-            raise InputError(where, f"profile.{key}", f"no such key{suggest(key, _PROFILE_KEYS)}")
+            errors.add(
+                InputError(where, f"profile.{key}", f"no such key{suggest(key, _PROFILE_KEYS)}")
+            )
     limits: dict[str, Limit] = {}
-    _flatten(_table(data, "limits", where), "", where, limits)
-    settings = {
-        rule_id: parse_rule_setting(rule_id, table, where)
-        for rule_id, table in _table(data, "rules", where).items()
-    }
+    flatten_limits(
+        errors.attempt(_table, data, "limits", where, default={}), "", where, limits, errors
+    )
+    settings: dict[str, RuleSetting] = {}
+    for rule_id, table in errors.attempt(_table, data, "rules", where, default={}).items():
+        setting = errors.attempt(parse_rule_setting, rule_id, table, where, default=None)
+        if setting is not None:
+            settings[rule_id] = setting
     budget = None
     if "rule_time_budget" in meta:
         try:
             budget = qt.parse_quantity(meta["rule_time_budget"], _BUDGET).m_as("s")
         except u.QuantityError as exc:
-            raise InputError(where, "profile.rule_time_budget", str(exc)) from None
+            errors.add(InputError(where, "profile.rule_time_budget", str(exc)))
+    mandatory = errors.attempt(
+        _names, meta, "mandatory_rules", where, RULE_ID_RE, "rule ids", default=()
+    )
+    packs = errors.attempt(
+        _names, meta, "required_packs", where, PACK_NAME_RE, "rule pack names", default=()
+    )
+    waivers = errors.attempt(_table, data, "waivers", where, default={})
+    allow_stop = errors.attempt(_allow_stop, waivers, where, default=False)
+    errors.raise_any()
     own = Profile(
         name=meta["name"],
         path=where,
         description=str(meta.get("description", "")),
         limits=limits,
-        mandatory_rules=_names(meta, "mandatory_rules", where, RULE_ID_RE, "rule ids"),
+        mandatory_rules=mandatory,
         fingerprint=hashlib.sha256(text.encode()).hexdigest(),
-        allow_stop_waivers=_allow_stop(_table(data, "waivers", where), where),
-        required_packs=_names(meta, "required_packs", where, PACK_NAME_RE, "rule pack names"),
+        allow_stop_waivers=allow_stop,
+        required_packs=packs,
         rule_settings=settings,
         rule_time_budget=DEFAULT_BUDGET_S if budget is None else float(budget),
     )

@@ -136,9 +136,41 @@ def test_bad_profile_is_an_input_error(tmp_path: Path, capsys) -> None:
     err = capsys.readouterr().err.strip()
     assert code == 2
     assert (
-        err
-        == f"firstride: {profile}: limits.speed.max_speed.adult.source: every limit needs a source (text)"
+        err == f"firstride: {profile}:3: limits.speed.max_speed.adult.source: every limit needs a "
+        "source (text)"
     )
+
+
+def test_a_profile_reports_every_mistake_at_its_line(tmp_path: Path, capsys) -> None:
+    # as a build file does: the officer who writes a club's profile fixes it in one pass
+    build = tmp_path / "build.toml"
+    build.write_text(BASE)
+    profile = tmp_path / "profile.toml"
+    profile.write_text(
+        "[profile]\n"  # 1
+        'name = "club"\n'  # 2
+        'colour = "blue"\n'  # 3: no such key
+        'mandatory_rules = ["Not An Id"]\n'  # 4
+        "[limits.speed.max_speed.adult]\n"  # 5
+        'value = "25 km/h"\n'  # 6: no source
+        "[limits.brake.deceleration]\n"  # 7
+        'value = "3 wibbles"\n'  # 8: no such unit
+        'source = "club rule 4"\n'  # 9
+        "[waivers]\n"  # 10
+        'allow_stop = "yes"\n'  # 11: not a boolean
+    )
+    assert main(["review", str(build), "--profile", str(profile)]) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    fields = [line.split(": ")[2] for line in lines]
+    assert fields == [
+        "profile.colour",
+        "profile.mandatory_rules",
+        "limits.speed.max_speed.adult.source",
+        "limits.brake.deceleration.value",
+        "waivers.allow_stop",
+    ], lines
+    assert [line.split(": ")[1].rsplit(":", 1)[1] for line in lines] == ["3", "4", "5", "8", "11"]
+    assert all(line.startswith(f"firstride: {profile}:") for line in lines)
 
 
 def test_usage_error_is_one_line(capsys) -> None:
@@ -161,3 +193,15 @@ def test_pathological_input_in_a_real_process_has_no_traceback(tmp_path: Path) -
     assert done.stdout == ""
     assert "Traceback" not in done.stderr
     assert len(done.stderr.strip().splitlines()) == 1
+
+
+def test_a_profile_of_many_mistakes_spells_out_twenty(tmp_path: Path, capsys) -> None:
+    build = tmp_path / "build.toml"
+    build.write_text(BASE)
+    profile = tmp_path / "profile.toml"
+    tables = "".join(f'[limits.club.item{i}]\nvalue = "{i} A"\n' for i in range(25))
+    profile.write_text('[profile]\nname = "club"\n' + tables)
+    assert main(["review", str(build), "--profile", str(profile)]) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    assert len(lines) == 21 and lines[-1].endswith("... and 5 more")
+    assert lines[0].endswith(":3: limits.club.item0.source: every limit needs a source (text)")
