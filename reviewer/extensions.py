@@ -13,11 +13,11 @@ model does, so ``"95 mm"`` is parsed once, strictly, into a pint quantity.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, TypeVar
+from typing import TYPE_CHECKING, Any, TypeVar
 
 from pydantic import BaseModel, ValidationError
 
-from reviewer.errors import InputError
+from reviewer.errors import MAX_REPORTED, InputError, InputErrors
 
 if TYPE_CHECKING:
     from reviewer.build import Build
@@ -38,18 +38,23 @@ def extension(build: Build, pack: str, model: type[M]) -> M | None:
 
 
 def validate_extension(build: Build, pack: str, model: type[BaseModel], where: str) -> None:
-    """Raise an :class:`InputError` naming ``extensions.<pack>.<field>`` if the table is bad."""
+    """Raise :class:`InputErrors` naming each bad ``extensions.<pack>.<field>`` of the table:
+    every one pydantic finds, not only the first."""
     data = build.extensions.get(pack)
     if data is None:
         return
     try:
         model.model_validate(data)
     except ValidationError as exc:
-        error = exc.errors(include_url=False)[0]
-        path = "".join(f"[{p}]" if isinstance(p, int) else f".{p}" for p in error["loc"])
-        field = f"extensions.{pack}{path}"
-        if error["type"] == "extra_forbidden":
-            known = ", ".join(sorted(model.model_fields))
-            raise InputError(where, field, f"no such key; known keys: {known}") from None
-        message = str(error["msg"]).removeprefix("Value error, ")
-        raise InputError(where, field, message) from None
+        found = [_one(error, pack, model, where) for error in exc.errors(include_url=False)]
+        kept = found[:MAX_REPORTED]
+        raise InputErrors(kept, more=len(found) - len(kept)) from None
+
+
+def _one(error: dict[str, Any], pack: str, model: type[BaseModel], where: str) -> InputError:
+    path = "".join(f"[{p}]" if isinstance(p, int) else f".{p}" for p in error["loc"])
+    field = f"extensions.{pack}{path}"
+    if error["type"] == "extra_forbidden":
+        known = ", ".join(sorted(model.model_fields))
+        return InputError(where, field, f"no such key; known keys: {known}")
+    return InputError(where, field, str(error["msg"]).removeprefix("Value error, "))

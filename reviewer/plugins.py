@@ -329,8 +329,10 @@ class PackManager:
     def check_extensions(self, build: Build, where: str) -> None:
         """Validate each pack's ``[extensions.<pack>]`` table against the model the pack gives
         (``firstride_build_extension``): a bad value is an input error naming the field."""
+        from reviewer.error_collector import Collector
         from reviewer.extensions import validate_extension
 
+        errors = Collector(where, "")  # every pack's table, every error, before any rule runs
         for impl in self._pm.hook.firstride_build_extension.get_hookimpls():
             pack = impl.plugin_name
             try:
@@ -340,7 +342,8 @@ class PackManager:
             except Exception as exc:  # noqa: BLE001 - reported as a problem
                 self._problem(pack, f"firstride_build_extension failed: {_describe(exc)}")
                 continue
-            validate_extension(build, pack, model, where)
+            errors.attempt(validate_extension, build, pack, model, where, default=None)
+        errors.raise_any()
 
 
 def _describe(exc: BaseException) -> str:

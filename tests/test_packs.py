@@ -624,4 +624,17 @@ def test_bad_pack_input_in_a_build_is_exit_2_with_one_line(
     assert main(["review", str(build), "--rules", str(pack)]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "extensions.millrace.deck_height" in err[0]
+    # every mistake of the table at once, as for the core fields
+    build.write_text(
+        '[vehicle]\nname = "t"\nkind = "skateboard"\n[extensions.millrace]\n'
+        'deck_height = "9 V"\nkill_switch_lanyard = "maybe"\ncolour = "red"\n'
+    )
+    assert main(["review", str(build), "--rules", str(pack)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    fields = sorted(line.split(": ")[2] for line in err)
+    assert fields == [
+        "extensions.millrace.colour",
+        "extensions.millrace.deck_height",
+        "extensions.millrace.kill_switch_lanyard",
+    ], err
     sys.modules.pop("firstride_millrace", None)
