@@ -342,6 +342,24 @@ def test_energy_balance_soc_monotonic_and_determinism() -> None:
     assert any(c == (0.0,) for c in first.motor_current_a)
 
 
+def test_riders_sharing_the_drives_lines_ride_as_they_would_alone() -> None:
+    # a state's lines depend on the pack voltage and the winding temperatures, not on who rides:
+    # sharing them between riders changes nothing of either ride
+    from reviewer.engineering.ride_drive import SharedLines
+
+    route = [*hill(1500.0), Segment(2000.0, 0.0, None, stops=2)]
+    winding = hub_winding()
+    alone = [simulate(hub_drive(), m, route, winding, PACK) for m in (110.0, 70.0)]
+    shared = SharedLines(hub_drive(), (winding,), 0.05, 5.0)
+    together = [
+        simulate(hub_drive(), m, route, winding, PACK, shared=shared) for m in (110.0, 70.0)
+    ]
+    assert together == alone
+    assert shared.states  # and the second ride found the first's states
+    with pytest.raises(ValueError, match="another drive"):
+        simulate(hub_drive(reduction=9.0), 70.0, route, winding, PACK, shared=shared)
+
+
 def test_a_ride_that_cannot_go_on_says_why() -> None:
     # a grade the drive cannot climb at all (its stall force is below the load)
     stalled = simulate(hub_drive(current_limit=5.0), 110.0, hill(300.0), hub_winding(), PACK)

@@ -37,7 +37,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
-from reviewer.engineering.ride_drive import DriveAt, cruise_currents
+from reviewer.engineering.ride_drive import DriveAt, SharedLines, cruise_currents
 from reviewer.engineering.ride_drive import RideModelError as RideModelError
 from reviewer.engineering.ride_drive import require as _require
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
@@ -171,6 +171,7 @@ def simulate(
     cruise_dt: float | None = None,
     accel_dt: float | None = None,
     accel_tolerance: float = _ACCEL_TOLERANCE,
+    shared: SharedLines | None = None,
 ) -> RideResult:
     """Ride ``segments`` in order with ``total_mass`` kg (vehicle and rider) and step ``dt`` s.
 
@@ -178,10 +179,15 @@ def simulate(
     voltage below which the controller or BMS cuts (the pack chemistry's cut-off when None);
     crossing it is recorded, the ride goes on. ``wiring_resistance``: shared wiring between the
     pack and the controller, ohm. ``start_speed_ms``: speed at the start (rest). ``voltage_step``
-    (V) and ``temperature_step`` (K): the grids the drive's lines are taken on.
+    (V) and ``temperature_step`` (K): the grids the drive's lines are taken on. ``shared``:
+    the lines of states other riders' rides on this drive, windings and grids have met.
     """
     t_step = temperature_step
     windings = tuple(winding) if isinstance(winding, Sequence) else (winding,) * len(drive.motors)
+    if shared is None:
+        shared = SharedLines(drive, windings, voltage_step, t_step)
+    elif shared.identity != (drive, windings, voltage_step, t_step):
+        raise ValueError("shared lines belong to another drive, windings or grid")
     if len(windings) != len(drive.motors):
         raise ValueError("give one winding per motor of the drive, or one for all")
     extra_r = []  # ohm: each motor's branch besides its winding (switch, wires)
@@ -230,7 +236,10 @@ def simulate(
                     w.resistance(n * t_step) - w.resistance_20c
                     for w, n in zip(windings, key[1:], strict=True)
                 ]
-                at = drives[key] = DriveAt(drive, key[0] * voltage_step, hot, total_mass, hints)
+                volts = key[0] * voltage_step
+                at = drives[key] = DriveAt(
+                    drive, volts, hot, total_mass, hints, shared.lines_for(key, volts, hot)
+                )
             lines = at.lines
             cruise = at.cruise(leg.grade, leg.target)
             if cruise <= 0.0:

@@ -8,7 +8,7 @@ speed lies close to the last one found for the same grade, so that bracket is tr
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 
 from reviewer.engineering.motor import TorqueSpeedLine
 from reviewer.engineering.roadload import (
@@ -43,10 +43,13 @@ class DriveAt:
         extra: Sequence[float],
         mass: float,
         hints: dict[tuple[float, float | None], float] | None = None,
+        lines: tuple[list[TorqueSpeedLine], Callable[[float], float]] | None = None,
     ) -> None:
         self.drive, self.mass = drive, mass
-        self.lines = drive.lines_at(voltage, extra)
-        self.pull = drive._drive_force(self.lines, drive.reduction)
+        if lines is None:
+            built = drive.lines_at(voltage, extra)
+            lines = built, drive._drive_force(built, drive.reduction)
+        self.lines, self.pull = lines
         self._cruise: dict[tuple[float, float | None], float] = {}
         self.hints = {} if hints is None else hints
 
@@ -93,6 +96,30 @@ class DriveAt:
             bound,
             grade,
         )
+
+
+class SharedLines:
+    """The drive's lines and wheel force at each (voltage, temperatures) state of a ride,
+    shared by the rides of several riders on the same drive, windings and grids: a state's
+    lines do not depend on who rides. ``simulate`` refuses it for another drive or grid."""
+
+    def __init__(
+        self, drive: Drive, windings: Sequence[object], voltage_step: float, t_step: float
+    ) -> None:
+        self.identity = (drive, tuple(windings), voltage_step, t_step)
+        self.states: dict[
+            tuple[int, ...], tuple[list[TorqueSpeedLine], Callable[[float], float]]
+        ] = {}
+
+    def lines_for(
+        self, key: tuple[int, ...], voltage: float, extra: Sequence[float]
+    ) -> tuple[list[TorqueSpeedLine], Callable[[float], float]]:
+        found = self.states.get(key)
+        if found is None:
+            drive = self.identity[0]
+            built = drive.lines_at(voltage, extra)
+            found = self.states[key] = built, drive._drive_force(built, drive.reduction)
+        return found
 
 
 def cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -> list[float]:

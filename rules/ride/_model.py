@@ -17,6 +17,7 @@ from firstride_rules._shared.wording import drive_model
 from reviewer import figures
 from reviewer.build import Build, Motor
 from reviewer.engineering.ride import RideResult, Segment, simulate
+from reviewer.engineering.ride_drive import SharedLines
 from reviewer.engineering.ride_pack import PackModel
 from reviewer.engineering.ride_thermal import (
     AirflowCooling,
@@ -34,6 +35,8 @@ from reviewer.findings import Assumption
 from reviewer.profile import Profile
 from reviewer.units import in_unit
 
+_VOLTAGE_STEP = 0.05  # V: the grid the drive's lines are taken on (rounded down)
+_TEMPERATURE_STEP = 5.0  # K: the same for each winding's temperature (rounded up)
 _UNLIMITED_AH = 1.0e6  # a pack whose capacity is unknown: it never runs down (the most power)
 
 
@@ -110,6 +113,8 @@ def _simulate(build: Build, profile: Profile) -> Ride:
                 )
             )
         cutoff = _cutoff(build)
+        # a state's lines are the same whoever rides: the riders' rides share them
+        shared = SharedLines(drive, tuple(windings), _VOLTAGE_STEP, _TEMPERATURE_STEP)
         for rider in build.riders:
             mass = in_unit(build.vehicle.mass, "kg") + in_unit(rider.mass, "kg")
             results.append(
@@ -122,6 +127,9 @@ def _simulate(build: Build, profile: Profile) -> Ride:
                     in_unit(profile.limit("ride.time_step").quantity, "s"),
                     cutoff_voltage=cutoff,
                     cruise_dt=in_unit(profile.limit("ride.cruise_time_step").quantity, "s"),
+                    voltage_step=_VOLTAGE_STEP,
+                    temperature_step=_TEMPERATURE_STEP,
+                    shared=shared,
                 )
             )
     return Ride(
