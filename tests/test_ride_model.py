@@ -375,3 +375,16 @@ def test_a_ride_that_cannot_go_on_says_why() -> None:
     weak_pack = replace(PACK, resistance=5.0)
     weak = simulate(hub_drive(shared_resistance=0.0), 110.0, hill(300.0), hub_winding(), weak_pack)
     assert not weak.completed and "cannot deliver" in (weak.stop_reason or "")
+
+
+def test_the_rides_step_is_the_exact_step_and_the_runaway_test() -> None:
+    # the ride reads both from one call: each must be what the two functions give alone
+    from reviewer.engineering.ride_thermal import ride_step, runaway_parameter
+
+    winding = hub_winding()
+    for current in (0.0, 5.0, 15.0, 40.0, 400.0):
+        for speed in (0.0, 3.0, 9.0):
+            stepped, past = ride_step(60.0, current, 10.0, winding, speed)
+            assert stepped == winding_step(60.0, current, 10.0, winding, speed, True)
+            assert past == (runaway_parameter(current, winding, speed) >= 1.0)
+    assert ride_step(60.0, 400.0, 10.0, winding, 0.0)[1]  # far past the runaway current

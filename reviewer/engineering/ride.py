@@ -25,7 +25,7 @@ voltage-limited part of its line pulls less: the vehicle stays longer on the hil
 per motor is P = (E + I R) I, E = Ke w, R the motor's branch with the winding at its present
 temperature; the battery current delivers the sum through the pack's and ``wiring_resistance``
 (:func:`reviewer.engineering.ride_pack.battery_current`). Windings step exactly
-(:func:`reviewer.engineering.ride_thermal.winding_step`), runaway allowed and timed.
+(:func:`reviewer.engineering.ride_thermal.ride_step`), runaway allowed and timed.
 
 A ride ends early, with ``stop_reason`` set, when the drive cannot climb a grade, the pack
 cannot deliver the power, or the pack is empty; the series then run to that point.
@@ -41,7 +41,7 @@ from reviewer.engineering.ride_drive import DriveAt, SharedLines, cruise_current
 from reviewer.engineering.ride_drive import RideModelError as RideModelError
 from reviewer.engineering.ride_drive import require as _require
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
-from reviewer.engineering.ride_thermal import Winding, runaway_parameter, winding_step
+from reviewer.engineering.ride_thermal import Winding, ride_step
 from reviewer.engineering.roadload import AIR_DENSITY_ISA, Drive, road_load_force
 
 _MAX_STEPS = 2_000_000
@@ -303,8 +303,8 @@ def simulate(
 
             runaway = False
             for k, current in enumerate(currents):
-                thetas[k] = winding_step(thetas[k], current, step, windings[k], v, True)
-                runaway = runaway or runaway_parameter(current, windings[k], v) >= 1.0
+                thetas[k], past = ride_step(thetas[k], current, step, windings[k], v)
+                runaway = runaway or past
                 if not math.isfinite(thetas[k]):
                     result.stop_reason = f"thermal runaway beyond any temperature at {x:.0f} m"
                     return result

@@ -171,9 +171,12 @@ def first_order_step(theta: float, theta_ss: float, dt: float, tau: float) -> fl
     return theta_ss + (theta - theta_ss) * math.exp(-dt / tau)
 
 
-def _coefficients(current: float, winding: Winding, speed_ms: float) -> tuple[float, float]:
-    """A and B of C dtheta/dt = A + B theta, in W and W/K."""
-    factor = winding.cooling(speed_ms)
+def _coefficients(
+    current: float, winding: Winding, speed_ms: float, factor: float | None = None
+) -> tuple[float, float]:
+    """A and B of C dtheta/dt = A + B theta, in W and W/K (``factor``: k(v), if known)."""
+    if factor is None:
+        factor = winding.cooling(speed_ms)
     if not factor > 0:
         raise ValueError(f"cooling factor must be positive, got {factor!r} at {speed_ms} m/s")
     conductance = factor / winding.thermal_resistance
@@ -228,19 +231,45 @@ def winding_step(
     if dt < 0:
         raise ValueError("the step must not be negative")
     a, b = _coefficients(current, winding, speed_ms)
-    capacity = winding.capacity
-    rate = a + b * theta  # W: net heat flow into the node now
-    if b == 0.0:
-        return theta + rate * dt / capacity
     if b > 0.0 and not allow_runaway:
         raise ThermalRunaway(
             f"thermal runaway at {current:.4g} A: I^2 R20 alpha R_th / k = "
             f"{runaway_parameter(current, winding, speed_ms):.4g} >= 1, no steady temperature"
         )
+    return _advance(theta, a, b, dt, winding.capacity)
+
+
+def _advance(theta: float, a: float, b: float, dt: float, capacity: float) -> float:
+    """C dtheta/dt = A + B theta solved exactly over ``dt`` from ``theta``."""
+    rate = a + b * theta  # W: net heat flow into the node now
+    if b == 0.0:
+        return theta + rate * dt / capacity
     exponent = b * dt / capacity
     if exponent > _MAX_EXPONENT:
         return math.inf if rate > 0 else -math.inf
     return theta + rate / b * math.expm1(exponent)
+
+
+def ride_step(
+    theta: float, current: float, dt: float, winding: Winding, speed_ms: float
+) -> tuple[float, bool]:
+    """:func:`winding_step` with runaway allowed, and whether the current is at or past the
+    runaway current (:func:`runaway_parameter` >= 1): the same two answers the ride asks for
+    each step, with the cooling at the speed read once."""
+    if dt < 0:
+        raise ValueError("the step must not be negative")
+    factor = winding.cooling(speed_ms)
+    a, b = _coefficients(current, winding, speed_ms, factor)
+    runaway = (
+        current
+        * current
+        * winding.resistance_20c
+        * winding.alpha
+        * winding.thermal_resistance
+        / factor
+        >= 1.0
+    )
+    return _advance(theta, a, b, dt, winding.capacity), runaway
 
 
 def time_to_temperature(
