@@ -237,9 +237,8 @@ def simulate(
                     for w, n in zip(windings, key[1:], strict=True)
                 ]
                 volts = key[0] * voltage_step
-                at = drives[key] = DriveAt(
-                    drive, volts, hot, total_mass, hints, shared.lines_for(key, volts, hot)
-                )
+                lines_here = shared.lines_for(key, volts, hot)
+                at = drives[key] = DriveAt(drive, lines_here, total_mass, hints)
             lines = at.lines
             cruise = at.cruise(leg.grade, leg.target)
             if cruise <= 0.0:

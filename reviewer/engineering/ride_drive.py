@@ -39,16 +39,12 @@ class DriveAt:
     def __init__(
         self,
         drive: Drive,
-        voltage: float,
-        extra: Sequence[float],
+        lines: tuple[list[TorqueSpeedLine], Callable[[float], float]],
         mass: float,
         hints: dict[tuple[float, float | None], float] | None = None,
-        lines: tuple[list[TorqueSpeedLine], Callable[[float], float]] | None = None,
     ) -> None:
+        """``lines``: the state's lines and wheel force, from :meth:`SharedLines.lines_for`."""
         self.drive, self.mass = drive, mass
-        if lines is None:
-            built = drive.lines_at(voltage, extra)
-            lines = built, drive._drive_force(built, drive.reduction)
         self.lines, self.pull = lines
         self._cruise: dict[tuple[float, float | None], float] = {}
         self.hints = {} if hints is None else hints
