@@ -211,6 +211,11 @@ def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
     )
     waivers = errors.attempt(_table, data, "waivers", where, default={})
     allow_stop = errors.attempt(_allow_stop, waivers, where, default=False)
+    extends = meta.get("extends")
+    if extends is not None and (not isinstance(extends, str) or not extends.strip()):
+        errors.add(
+            InputError(where, "profile.extends", f"'{BUILT_IN}' or the path of a profile file")
+        )
     errors.raise_any()
     own = Profile(
         name=meta["name"],
@@ -224,11 +229,8 @@ def _layered(text: str, where: str, seen: tuple[str, ...]) -> Profile:
         rule_settings=settings,
         rule_time_budget=DEFAULT_BUDGET_S if budget is None else float(budget),
     )
-    extends = meta.get("extends")
     if extends is None:
         return own
-    if not isinstance(extends, str) or not extends.strip():
-        raise InputError(where, "profile.extends", f"'{BUILT_IN}' or the path of a profile file")
     parent = _load_parent(extends.strip(), where, (*seen, _identity(where)))
     return _merge(parent, own, budget is not None, "waivers" in data, where)
 
