@@ -10,7 +10,7 @@ from dataclasses import replace
 import pytest
 
 from reviewer.engineering.cells import CELL_VOLTAGES
-from reviewer.engineering.ride import Segment, simulate
+from reviewer.engineering.ride import RideModelError, Segment, simulate
 from reviewer.engineering.ride_pack import (
     OCV_TABLES,
     PackModel,
@@ -40,6 +40,8 @@ from reviewer.engineering.thermal import (
     steady_winding_temperature,
     thermal_class,
 )
+
+from .conftest import ROOT
 
 # alpha that makes the linear law identical to the 234.5 inferred-zero form of thermal.py
 ALPHA_INFERRED_ZERO = 1.0 / (234.5 + 20.0)
@@ -388,3 +390,39 @@ def test_the_rides_step_is_the_exact_step_and_the_runaway_test() -> None:
             assert stepped == winding_step(60.0, current, 10.0, winding, speed, True)
             assert past == (runaway_parameter(current, winding, speed) >= 1.0)
     assert ride_step(60.0, 400.0, 10.0, winding, 0.0)[1]  # far past the runaway current
+
+
+def test_a_coasting_cruise_with_every_motor_past_its_no_load_speed_draws_nothing() -> None:
+    # Newton's first law: where the road load is nil (down a grade, at the speed where the
+    # grade's pull meets drag and rolling) the motors need give nothing; a demand left by the
+    # top speed's rounding (1e-9 N m) against two lines both at or past no load (torque <= 0)
+    # is that case, not a drive short of torque
+    from reviewer.engineering.motor import TorqueSpeedLine
+    from reviewer.engineering.ride_drive import cruise_currents
+
+    lines = [TorqueSpeedLine(100.0, 38.55, r, 0.6) for r in (1.997, 1.937)]
+    omega = max((ln.voltage - ln.no_load_current * ln.loop_resistance) / ln.ke for ln in lines)
+    assert cruise_currents(lines, 7.5e-10, omega) == [0.0, 0.0]
+    with pytest.raises(RideModelError, match="more torque"):
+        cruise_currents(lines, 0.01, omega)  # a real demand the lines cannot meet still fails
+
+
+def test_a_two_motor_ride_with_unequal_windings_runs_the_whole_route() -> None:
+    # found by the scaling benchmark: the trike with two motors, one warmer than the other
+    import tomllib
+
+    from firstride_rules.ride._model import _simulate as ridden
+
+    from reviewer.testing import default_profile, make_build
+
+    data = tomllib.loads((ROOT / "sample_builds" / "allotment-cargo-trike.toml").read_text())
+    first = data["motors"][0]
+    data["motors"] = [
+        dict(first, name="left"),
+        dict(first, name="right", winding_resistance="1.3 ohm"),
+    ]
+    for wire in data["wires"]:
+        if wire["circuit"] == "motor":
+            wire["motor"] = "left"
+    ride = ridden(make_build(data), default_profile())
+    assert ride.results and all(r.time_s for r in ride.results)

@@ -118,10 +118,17 @@ class SharedLines:
         return found
 
 
+#: N m: a cruise demand this small is no demand (the top speed's root is found to 1e-9 of the
+#: speed; the road load there is then a few 1e-9 N, far below this).
+NO_TORQUE = 1e-6
+
+
 def cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -> list[float]:
     """Motor currents giving ``torque`` N m in all, shared in proportion to each line's
-    torque at ``omega``; I = T / Kt + I0, never above the line."""
-    if torque <= 0.0:
+    torque at ``omega``; I = T / Kt + I0, never above the line. A demand at or below
+    :data:`NO_TORQUE` (a top speed found where the road load itself is nil, coasting down a
+    grade: what is left is the root's rounding) draws nothing."""
+    if torque <= NO_TORQUE:
         return [0.0] * len(lines)
     most = [line.current(omega) for line in lines]
     maxima = [max(ln.kt * (c - ln.no_load_current), 0.0) for ln, c in zip(lines, most, strict=True)]
