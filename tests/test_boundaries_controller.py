@@ -18,41 +18,14 @@ from firstride_rules.controller.switch_thermal import RULE as SWITCH_THERMAL
 from reviewer.findings import Finding, Severity
 from reviewer.testing import run_rule_on
 
-CONTROLLER: dict[str, Any] = {
-    "motor_current_limit": "20 A",
-    "current_limit_kind": "software",
-    "pwm_frequency": "4 kHz",
-    "switch_on_resistance": "0.010 ohm",
-    "switch_max_current": "60 A",
-    "switch_rise_time": "100 ns",
-    "switch_fall_time": "100 ns",
-    "switch_max_junction_temperature": "150 degC",
-    "switch_thermal_resistance_junction_case": "1 K/W",
-    "switch_thermal_resistance_case_sink": "0.5 K/W",
-    "switch_thermal_resistance_sink_air": "4 K/W",
-    "freewheel_diode": True,
-    "diode_reverse_voltage": "60 V",
-    "diode_average_current": "20 A",
-    "diode_peak_current": "40 A",
-    "current_sensor_range": "150 A",
-    "current_samples_averaged": 200,
-    "current_sample_rate": "10 kHz",
-}
+from .test_rule_controller import CONTROLLER, MOTOR
 
 
 def build(**controller: Any) -> dict[str, Any]:
+    """The pack, motor and controller of tests/test_rule_controller.py, in 25 degC air."""
     return {
         "battery": {"chemistry": "li-ion", "cells_series": 7},
-        "motors": [
-            {
-                "name": "rear",
-                "type": "brushed",
-                "kv": "100 rpm/V",
-                "winding_resistance": "0.25 ohm",
-                "rated_current": "20 A",
-                "insulation_class": "F",
-            }
-        ],
+        "motors": [copy.deepcopy(MOTOR)],
         "controller": {**copy.deepcopy(CONTROLLER), **controller},
         "usage": {"ambient_temperature": "25 degC"},
     }

@@ -3,6 +3,7 @@ against the highest speed including the descent, and the deck's rated load."""
 
 from __future__ import annotations
 
+import copy
 import math
 from typing import Any
 
@@ -12,32 +13,14 @@ from firstride_rules.mechanical.wheels import RULE
 from reviewer.findings import Finding, Severity
 from reviewer.testing import rule_outputs, run_rule_on, variant
 
+from .test_rule_brake import KART
+
 G, RHO = 9.80665, 1.225  # CGPM standard gravity; ISA sea-level air density
 
-# An invented scooter (the drive of tests/test_rule_stopping.py) on two rated wheels.
+# An invented scooter on two rated wheels: the drive and riders of tests/test_rule_brake.py's kart.
 SCOOTER: dict[str, Any] = {
+    **{key: copy.deepcopy(value) for key, value in KART.items() if key != "brakes"},
     "vehicle": {"name": "test scooter", "kind": "scooter", "mass": "20 kg", "rated_load": "100 kg"},
-    "riders": [
-        {"name": "Ada", "mass": "80 kg", "class": "adult"},
-        {"name": "Kim", "mass": "40 kg", "class": "youth"},
-    ],
-    "battery": {"chemistry": "li-ion", "cells_series": 10},
-    "motors": [
-        {
-            "name": "rear",
-            "type": "brushed",
-            "kv": "100 rpm/V",
-            "winding_resistance": "0.4 ohm",
-            "no_load_current": "1 A",
-        }
-    ],
-    "controller": {"motor_current_limit": "10 A"},
-    "drivetrain": {
-        "motor_pulley_teeth": 12,
-        "wheel_pulley_teeth": 60,
-        "wheel_diameter": "200 mm",
-        "efficiency": "90 %",
-    },
     "wheels": [
         {"name": "front", "position": "front", "rated_load": "90 kg", "speed_rating": "60 km/h"},
         {"name": "rear", "position": "rear", "rated_load": "90 kg", "speed_rating": "60 km/h"},
