@@ -62,3 +62,17 @@ def test_plots_writes_the_chart_and_both_outputs_link_it(tmp_path: Path) -> None
     assert json.loads(data.read_text(encoding="utf-8"))["chart"] == "charts/sweep.svg"
     assert main(["sweep", str(SAMPLE), "--vary", AXIS, "-o", str(out)]) == 0
     assert "sweep.svg" not in out.read_text(encoding="utf-8")
+
+
+def test_plots_without_matplotlib_is_a_usage_error_before_any_point(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str]
+) -> None:
+    import reviewer.plots
+    import reviewer.sweep
+
+    monkeypatch.setattr(reviewer.plots, "available", lambda: False)
+    monkeypatch.setattr(reviewer.sweep, "run_sweep", lambda *a, **k: pytest.fail("swept"))
+    args = ["sweep", str(SAMPLE), "--vary", AXIS, "--plots", str(tmp_path / "c")]
+    assert main(args) == 2
+    assert "charts need matplotlib" in capsys.readouterr().err
+    assert not (tmp_path / "c").exists()

@@ -51,6 +51,11 @@ def run(args: argparse.Namespace) -> int:
         raise InputError("--vary", "(usage)", "one or two fields to vary")
     loaded = load_build(args.build)
     load_profile(args.profile)  # a bad profile is one error before any point runs
+    if args.plots:  # and so is a chart that cannot be drawn
+        from reviewer.plots import INSTALL_HINT, available
+
+        if not available():
+            raise InputError("--plots", "(usage)", f"charts need matplotlib: {INSTALL_HINT}")
     axes = [parse_axis(text, loaded.data) for text in args.vary]
     if len({a.field for a in axes}) < len(axes):
         raise InputError("--vary", axes[0].field, "two different fields")
