@@ -266,3 +266,18 @@ _REASONS = {
 
 def _cannot(exc: OSError) -> str:
     return _REASONS.get(exc.errno or 0, f"a writable file ({(exc.strerror or 'error').lower()})")
+
+
+def output_folder(path: str | Path, what: str) -> Path:
+    """``path`` as a folder to write into, made with its parents if it is missing; an
+    :class:`InputError` naming it (``what``: what the folder is for) when it is a file or
+    cannot be made."""
+    folder = Path(path)
+    if folder.exists() and not folder.is_dir():
+        raise InputError(str(folder), "(output)", f"a folder for {what}; this is a file")
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        reason = (exc.strerror or "error").lower()
+        raise InputError(str(folder), "(output)", f"a folder for {what} ({reason})") from None
+    return folder

@@ -76,3 +76,17 @@ def test_plots_without_matplotlib_is_a_usage_error_before_any_point(
     assert main(args) == 2
     assert "charts need matplotlib" in capsys.readouterr().err
     assert not (tmp_path / "c").exists()
+
+
+@pytest.mark.parametrize("verb", ["sweep", "review"])
+def test_plots_onto_a_file_is_one_line_and_exit_2(
+    verb: str, tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    taken = tmp_path / "taken"
+    taken.write_text("not a folder", encoding="utf-8")
+    extra = ["--vary", AXIS] if verb == "sweep" else []
+    out = tmp_path / "out.md"
+    assert main([verb, str(SAMPLE), *extra, "--plots", str(taken), "-o", str(out)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "a folder for the chart" in err[0] and "this is a file" in err[0]
+    assert taken.read_text(encoding="utf-8") == "not a folder" and not out.exists()

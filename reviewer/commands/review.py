@@ -136,15 +136,14 @@ def _write_charts(args: argparse.Namespace, result: Review) -> list[tuple[str, s
 
     from reviewer.charts import review_charts
     from reviewer.errors import InputError
-    from reviewer.output import write_whole
+    from reviewer.output import output_folder, write_whole
     from reviewer.plots import INSTALL_HINT, PlotsUnavailable
 
     try:
         charts = review_charts(result)
     except PlotsUnavailable:
         raise InputError("--plots", "(usage)", f"charts need matplotlib: {INSTALL_HINT}") from None
-    folder = Path(args.plots)
-    folder.mkdir(parents=True, exist_ok=True)
+    folder = output_folder(args.plots, "the charts (--plots)")
     base = Path(args.output).parent if args.output else Path()
     read = [*args.build, args.profile, args.waivers, args.since, *args.rule_files]
     links = []

@@ -56,6 +56,9 @@ def run(args: argparse.Namespace) -> int:
 
         if not available():
             raise InputError("--plots", "(usage)", f"charts need matplotlib: {INSTALL_HINT}")
+        from reviewer.output import output_folder
+
+        output_folder(args.plots, "the chart (--plots)")
     axes = [parse_axis(text, loaded.data) for text in args.vary]
     if len({a.field for a in axes}) < len(axes):
         raise InputError("--vary", axes[0].field, "two different fields")
@@ -90,7 +93,7 @@ def _write_chart(args: argparse.Namespace, axes, points) -> str:
     from pathlib import Path
 
     from reviewer.errors import InputError
-    from reviewer.output import write_whole
+    from reviewer.output import output_folder, write_whole
     from reviewer.plots import INSTALL_HINT, PlotsUnavailable
     from reviewer.plots.sweep import sweep_svg
 
@@ -98,8 +101,7 @@ def _write_chart(args: argparse.Namespace, axes, points) -> str:
         svg = sweep_svg(axes, points)
     except PlotsUnavailable:
         raise InputError("--plots", "(usage)", f"charts need matplotlib: {INSTALL_HINT}") from None
-    folder = Path(args.plots)
-    folder.mkdir(parents=True, exist_ok=True)
+    folder = output_folder(args.plots, "the chart (--plots)")
     path = folder / "sweep.svg"
     write_whole(path, svg, inputs=[args.build, args.profile])
     base = Path(args.output).parent if args.output else Path()
