@@ -103,3 +103,18 @@ def test_fleet_usage_errors_are_one_line(tmp_path: Path, capsys, extra, expected
 def test_an_empty_folder_is_an_input_error(tmp_path: Path) -> None:
     with pytest.raises(InputError, match=r"at least one \.toml"):
         collect_builds([tmp_path])
+
+
+def test_a_review_that_would_land_on_an_input_stops_the_fleet_before_any_review(
+    tmp_path: Path, capsys
+) -> None:
+    # a build file named like another build's review: nothing is written, the input stays
+    folder = tmp_path / "fleet"
+    folder.mkdir()
+    sample = (SAMPLES / "quayside-commuter.toml").read_bytes()
+    (folder / "c.toml").write_bytes(sample)
+    (folder / "a.md").write_bytes(sample)
+    assert main(["review", str(folder / "c.toml"), str(folder / "a.md"), "-o", str(folder)]) == 2
+    assert "not an input of this run" in capsys.readouterr().err
+    assert sorted(p.name for p in folder.iterdir()) == ["a.md", "c.toml"]
+    assert (folder / "a.md").read_bytes() == sample

@@ -90,3 +90,10 @@ def test_plots_onto_a_file_is_one_line_and_exit_2(
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "a folder for the chart" in err[0] and "this is a file" in err[0]
     assert taken.read_text(encoding="utf-8") == "not a folder" and not out.exists()
+
+
+def test_the_sweep_never_writes_onto_its_build(tmp_path: Path) -> None:
+    build = tmp_path / "b.toml"
+    build.write_bytes(SAMPLE.read_bytes())
+    assert main(["sweep", str(build), "--vary", AXIS, "-o", str(build)]) == 2
+    assert build.read_bytes() == SAMPLE.read_bytes()

@@ -31,7 +31,7 @@ def run_fleet(args: argparse.Namespace) -> int:
         worst_status,
     )
     from reviewer.fleet_summary import render_summary
-    from reviewer.output import write_whole
+    from reviewer.output import writable_target, write_whole
 
     for option in ("waivers", "since"):
         if getattr(args, option):
@@ -53,14 +53,17 @@ def run_fleet(args: argparse.Namespace) -> int:
     )
     _check_setup(options)  # a bad profile or pack is the whole run's error, before any review
     folder.mkdir(parents=True, exist_ok=True)
+    read = [*builds, args.profile, *args.rule_files]  # never written onto
+    summary = folder / f"{SUMMARY_STEM}{SUFFIX[args.format]}"
+    for name in [*names.values(), summary.name]:  # every output checked before any review
+        writable_target(folder / name, read)
     jobs = args.jobs or (os.cpu_count() or 1)
     entries = []
     for _, text, entry in review_fleet(builds, names, options, jobs=jobs, progress=_progress):
         if entry.output:
-            write_whole(folder / entry.output, text)
+            write_whole(folder / entry.output, text, inputs=read)
         entries.append(entry)
-    summary = folder / f"{SUMMARY_STEM}{SUFFIX[args.format]}"
-    write_whole(summary, render_summary(entries, args.format))
+    write_whole(summary, render_summary(entries, args.format), inputs=read)
     bad = sum(1 for e in entries if e.error)
     print(
         f"firstride: {len(entries)} builds reviewed into {folder.as_posix()}"

@@ -79,7 +79,7 @@ def run(args: argparse.Namespace) -> int:
 
         from reviewer.output import write_whole
 
-        write_whole(Path(args.output), text)
+        write_whole(Path(args.output), text, inputs=[args.build, args.profile])
     else:
         sys.stdout.write(text)
     passing = sum(1 for p in points if p.passes)
