@@ -74,6 +74,25 @@ def parse_path(field: str) -> tuple[str | int, ...]:
     return tuple(tokens)
 
 
+def known_field(field: str, path: Sequence[str | int]) -> None:
+    """Raise an InputError unless ``path`` names a field of the build model (a misspelt
+    field would make every point an input error; this says so once, before any point)."""
+    from reviewer.build import Build
+    from reviewer.loader import _inner_model, _suggest
+
+    model: Any = Build
+    for part in path:
+        if model is None:  # a free-form table (a pack's [extensions]): its pack's model checks
+            return
+        if isinstance(part, int):
+            continue
+        info = model.model_fields.get(part)
+        if info is None:
+            hint = _suggest(tuple(p for p in path[: path.index(part) + 1]), Build)
+            raise InputError("--vary", field, f"a field of the build file{hint}")
+        model = _inner_model(info.annotation)
+
+
 def parse_axis(text: str, data: dict[str, Any]) -> Axis:
     """``FIELD=START:STOP[:STEP]`` with values written as in the build file."""
     field, sep, span = text.partition("=")
@@ -81,6 +100,7 @@ def parse_axis(text: str, data: dict[str, Any]) -> Axis:
         raise InputError("--vary", text[:80], "FIELD=START:STOP[:STEP]")
     field = field.strip()
     path = parse_path(field)
+    known_field(field, path)
     parts = span.split(":")
     if len(parts) not in (2, 3):
         raise InputError("--vary", field, "START:STOP or START:STOP:STEP")

@@ -125,3 +125,20 @@ def test_the_command_writes_json_for_scripts(tmp_path: Path, capsys) -> None:
     assert status == 0 and data["format"] == "firstride-sweep"
     assert [p["verdict"] for p in data["points"]][1] == "go"  # 12 A, the sample as built
     assert "points go" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize(
+    ("text", "expected"),
+    [
+        ("controler.motor_current_limit=1 A:2 A", "did you mean 'controller'?"),
+        ("controller.motor_curent_limit=1 A:2 A", "did you mean 'motor_current_limit'?"),
+    ],
+)
+def test_a_misspelt_field_is_one_input_error_before_any_point(text: str, expected: str) -> None:
+    with pytest.raises(InputError) as caught:
+        parse_axis(text, DATA)
+    assert caught.value.field == text.split("=")[0] and expected in caught.value.expected
+    # a pack's own table is free-form here: its pack's model checks it in the review
+    assert parse_axis("extensions.club.deck_height=80 mm:90 mm:10 mm", DATA).field.startswith(
+        "extensions."
+    )
