@@ -66,7 +66,8 @@ def run_fleet(args: argparse.Namespace) -> int:
     write_whole(summary, render_summary(entries, args.format), inputs=read)
     bad = sum(1 for e in entries if e.error)
     print(
-        f"firstride: {len(entries)} builds reviewed into {folder.as_posix()}"
+        f"firstride: {len(entries)} build{'' if len(entries) == 1 else 's'} reviewed into "
+        f"{folder.as_posix()}"
         + (f", {bad} could not be read" if bad else "")
         + f"; summary {summary.as_posix()}",
         file=sys.stderr,
