@@ -36,6 +36,9 @@ from reviewer.units import in_unit
 
 _STEPS = 64  # Simpson intervals over each smooth piece of the speed range
 
+#: Where a fitted friction brake goes in the build file, for a remedy to name.
+FRICTION_FIELDS = 'then a [[brakes]] entry: brakes[].kind = "friction", brakes[].deceleration'
+
 
 @dataclass(frozen=True)
 class BrakeEffect:

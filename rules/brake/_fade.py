@@ -6,6 +6,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
+from firstride_rules.brake._capability import FRICTION_FIELDS
 from firstride_rules.brake._loops import (
     BrakingLoop,
     force_per_speed,
@@ -108,8 +109,8 @@ def deceleration_findings(
     if short:
         remedy = (
             f"fit a friction brake that reaches at least {f(full)} m/s² with this brake, and "
-            f"at least {f(full * float(fraction.value))} m/s² on its own (then a [[brakes]] "
-            'entry: brakes[].kind = "friction", brakes[].deceleration)'  # type: ignore[arg-type]
+            f"at least {f(full * float(fraction.value))} m/s² on its own "  # type: ignore[arg-type]
+            f"({FRICTION_FIELDS})"
             if not beside_friction
             else share_remedy(drive, loops, speed, mass, needed, full)
         )

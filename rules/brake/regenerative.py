@@ -7,6 +7,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 
 from firstride_rules._shared.regen import ENERGY_BALANCE, regen_current
+from firstride_rules.brake._capability import FRICTION_FIELDS
 
 from reviewer import figures
 from reviewer import units as u
@@ -154,7 +155,7 @@ def _full_pack(build: Build, profile: Profile, battery: Battery, current: float 
             measured="no brake on a full pack",
             limit="a brake that does not depend on the pack's charge",
             remedy="fit a friction brake (disc, drum or rim) that stops the vehicle on its own "
-            '(then a [[brakes]] entry: brakes[].kind = "friction", brakes[].deceleration)',
+            f"({FRICTION_FIELDS})",
             sources=(FULL_PACK, OHM_LAW),
         )
     return Finding(

@@ -11,6 +11,7 @@ from dataclasses import replace
 
 from firstride_rules._shared.wording import drive_model
 from firstride_rules.brake._capability import (
+    FRICTION_FIELDS,
     BrakeEffect,
     brake_label,
     combined,
@@ -52,9 +53,6 @@ FLAT = Source(
 )
 _M = u.unit("m")
 _MS2 = u.unit("m/s**2")
-
-#: Where a fitted friction brake goes in the build file, for a remedy to name.
-_FRICTION_FIELDS = 'then a [[brakes]] entry: brakes[].kind = "friction", brakes[].deceleration'
 
 
 def check(build: Build, profile: Profile) -> Iterator[Output]:
@@ -112,7 +110,7 @@ def check(build: Build, profile: Profile) -> Iterator[Output]:
             measured="none",
             limit="a brake",
             remedy="fit a friction brake (disc, drum or rim) that reaches "
-            f"{u.format_number(needed)} m/s² and holds the vehicle on a slope ({_FRICTION_FIELDS})",
+            f"{u.format_number(needed)} m/s² and holds the vehicle on a slope ({FRICTION_FIELDS})",
             sources=(INDEPENDENT, minimum.source),
         )
         return
@@ -170,7 +168,7 @@ def _independence(build: Build, profile: Profile, needed: float, minimum: Limit)
         measured="none",
         limit="a friction or foot brake",
         remedy="fit a friction brake (disc, drum or rim) that reaches at least "
-        f"{u.format_number(needed * fraction)} m/s² on its own ({_FRICTION_FIELDS})",
+        f"{u.format_number(needed * fraction)} m/s² on its own ({FRICTION_FIELDS})",
         sources=(INDEPENDENT, minimum.source),
     )
 
