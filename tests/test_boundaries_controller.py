@@ -16,9 +16,10 @@ from firstride_rules.controller.current_sense import RULE as CURRENT_SENSE
 from firstride_rules.controller.switch_thermal import RULE as SWITCH_THERMAL
 
 from reviewer.findings import Finding, Severity
-from reviewer.testing import run_rule_on
+from reviewer.testing import run_rule_on, variant
 
 from .test_rule_controller import CONTROLLER, MOTOR
+from .test_rule_sealed_controller import BUILD as SEALED_BUILD
 
 
 def build(**controller: Any) -> dict[str, Any]:
@@ -129,26 +130,8 @@ def test_a_junction_exactly_at_its_rating_is_fix_not_stop():
 
 # --- switch-thermal: a sealed controller judged by its datasheet (rules/controller/_datasheet.py)
 
-SEALED: dict[str, Any] = {
-    "battery": {
-        "chemistry": "li-ion",
-        "cells_series": 10,
-        "cells_parallel": 1,
-        "cell_internal_resistance": "0.03 ohm",
-    },
-    "motors": [
-        {"name": "hub", "type": "brushless", "kv": "12 rpm/V", "winding_resistance": "0.24 ohm"}
-    ],
-    "controller": {
-        "drive": "six-step",
-        "motor_current_limit": "30 A",
-        "battery_current_limit": "15 A",
-        "current_limit_kind": "software",
-        "rated_continuous_current": "30 A",
-        "peak_current": "40 A",
-        "max_input_voltage": "60 V",
-    },
-}
+# tests/test_rule_sealed_controller.py's hub build, its limit raised to the 30 A continuous rating
+SEALED = variant(SEALED_BUILD, controller__motor_current_limit="30 A")
 
 
 def test_a_limit_exactly_at_the_continuous_rating_passes_and_says_it_is_held():
