@@ -19,6 +19,7 @@ from reviewer.engineering.roadload import (
     road_load_force,
     top_speed,
 )
+from reviewer.engineering.steady_speed import straight_piece_speed
 
 
 class RideModelError(AssertionError):
@@ -72,6 +73,11 @@ class DriveAt:
         def surplus(v: float) -> float:
             return max(pull(v), 0.0) - (steady + drag * v * v)
 
+        exact = straight_piece_speed(
+            self.lines, d.reduction, d.efficiency, d.wheel_radius, steady, drag, pull, clamped=True
+        )
+        if exact is not None:
+            return exact
         if hint is not None and hint > 0.0:
             # the pull never rises with speed and the load always does: one crossing, most
             # often within 0.2 % of the last state's (a narrow bracket closes in fewer steps); a

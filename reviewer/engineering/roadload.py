@@ -17,6 +17,7 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 from reviewer.engineering.motor import TorqueSpeedLine, drive_force_function
+from reviewer.engineering.steady_speed import straight_piece_speed
 
 AIR_DENSITY_ISA = 1.225  # kg/m^3, ISA sea level, 15 degC
 STANDARD_GRAVITY = 9.80665  # m/s^2, CGPM 1901
@@ -232,6 +233,9 @@ class Drive:
             ground_speed_for(line.no_load_speed, ratio, self.wheel_radius) for line in lines
         )
         force = self._drive_force(lines, ratio)
+        exact = self._straight(lines, ratio, total_mass, 0.0, force, clamped=False)
+        if exact is not None:
+            return exact
         return top_speed(force, total_mass, self.rolling_resistance, self.drag_area, bound)
 
     def climb_speed(self, total_mass: float, grade_percent: float) -> float:
@@ -242,6 +246,9 @@ class Drive:
             for line in lines
         )
         force = self._drive_force(lines, self.reduction)
+        exact = self._straight(lines, self.reduction, total_mass, grade_percent, force, False)
+        if exact is not None:
+            return exact
         return top_speed(
             force, total_mass, self.rolling_resistance, self.drag_area, bound, grade_percent
         )
@@ -258,6 +265,9 @@ class Drive:
             for line in lines
         )
         pull = self._drive_force(lines, self.reduction)
+        exact = self._straight(lines, self.reduction, total_mass, -descent_percent, pull, True)
+        if exact is not None:
+            return exact
         return top_speed(
             lambda speed: max(pull(speed), 0.0),
             total_mass,
@@ -281,6 +291,23 @@ class Drive:
         ratio = self.reduction if reduction is None else reduction
         load = road_load_force(total_mass, speed, self.rolling_resistance, self.drag_area)
         return self._drive_force(self.lines(duty), ratio)(speed) > load
+
+    def _straight(
+        self,
+        lines: list[TorqueSpeedLine],
+        ratio: float,
+        total_mass: float,
+        grade: float,
+        pull: Callable[[float], float],
+        clamped: bool,
+    ) -> float | None:
+        """The steady speed in closed form where a straight piece of the lines holds it
+        (``steady_speed.straight_piece_speed``), else None: search the root."""
+        steady = road_load_force(total_mass, 0.0, self.rolling_resistance, 0.0, grade)
+        drag = 0.5 * AIR_DENSITY_ISA * self.drag_area
+        return straight_piece_speed(
+            lines, ratio, self.efficiency, self.wheel_radius, steady, drag, pull, clamped=clamped
+        )
 
     def _drive_force(self, lines: list[TorqueSpeedLine], ratio: float) -> Callable[[float], float]:
         return drive_force_function(lines, ratio, self.efficiency, self.wheel_radius)
