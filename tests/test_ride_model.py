@@ -380,16 +380,34 @@ def test_a_ride_that_cannot_go_on_says_why() -> None:
 
 
 def test_the_rides_step_is_the_exact_step_and_the_runaway_test() -> None:
-    # the ride reads both from one call: each must be what the two functions give alone
-    from reviewer.engineering.ride_thermal import ride_step, runaway_parameter
+    # the ride reads both from one call: each must be what the two functions give alone, to
+    # the last bit, on a fixed and an airflow-cooled winding
+    from reviewer.engineering.ride_thermal import ride_stepper, runaway_parameter
 
-    winding = hub_winding()
-    for current in (0.0, 5.0, 15.0, 40.0, 400.0):
-        for speed in (0.0, 3.0, 9.0):
-            stepped, past = ride_step(60.0, current, 10.0, winding, speed)
-            assert stepped == winding_step(60.0, current, 10.0, winding, speed, True)
-            assert past == (runaway_parameter(current, winding, speed) >= 1.0)
-    assert ride_step(60.0, 400.0, 10.0, winding, 0.0)[1]  # far past the runaway current
+    for winding in (hub_winding(), hub_winding(cooling=AirflowCooling(0.4, 8.0))):
+        step = ride_stepper(winding)
+        for current in (0.0, 5.0, 15.0, 40.0, 400.0):
+            for speed in (0.0, 3.0, 9.0):
+                for theta, dt in ((60.0, 10.0), (23.7, 0.37), (141.0, 1.0)):
+                    stepped, past = step(theta, current, dt, speed)
+                    assert stepped == winding_step(theta, current, dt, winding, speed, True)
+                    assert past == (runaway_parameter(current, winding, speed) >= 1.0)
+        assert step(60.0, 400.0, 10.0, 0.0)[1]  # far past the runaway current
+        with pytest.raises(ValueError):
+            step(60.0, 5.0, -1.0, 0.0)
+
+
+def test_the_rides_open_circuit_voltage_is_the_packs() -> None:
+    # the ride's lookup reads the table once: it must give what PackModel does, to the bit,
+    # at the table's own points, between them and at both ends (brief 13's OCV tables)
+    for chemistry, table in OCV_TABLES.items():
+        pack = replace(PACK, chemistry=chemistry)
+        ocv = pack.open_circuit_voltage_function()
+        states = [point[0] for point in table] + [k / 997 for k in range(998)]
+        for state in states:
+            assert ocv(state) == pack.open_circuit_voltage(state), (chemistry, state)
+        with pytest.raises(ValueError):
+            ocv(1.01)
 
 
 def test_a_coasting_cruise_with_every_motor_past_its_no_load_speed_draws_nothing() -> None:

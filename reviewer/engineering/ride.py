@@ -25,7 +25,7 @@ voltage-limited part of its line pulls less: the vehicle stays longer on the hil
 per motor is P = (E + I R) I, E = Ke w, R the motor's branch with the winding at its present
 temperature; the battery current delivers the sum through the pack's and ``wiring_resistance``
 (:func:`reviewer.engineering.ride_pack.battery_current`). Windings step exactly
-(:func:`reviewer.engineering.ride_thermal.ride_step`), runaway allowed and timed.
+(:func:`reviewer.engineering.ride_thermal.ride_stepper`), runaway allowed and timed.
 
 A ride ends early, with ``stop_reason`` set, when the drive cannot climb a grade, the pack
 cannot deliver the power, or the pack is empty; the series then run to that point.
@@ -41,7 +41,7 @@ from reviewer.engineering.ride_drive import DriveAt, SharedLines, cruise_current
 from reviewer.engineering.ride_drive import RideModelError as RideModelError
 from reviewer.engineering.ride_drive import require as _require
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
-from reviewer.engineering.ride_thermal import Winding, ride_step
+from reviewer.engineering.ride_thermal import Winding, ride_stepper
 from reviewer.engineering.roadload import AIR_DENSITY_ISA, Drive, road_load_force
 
 _MAX_STEPS = 2_000_000
@@ -211,6 +211,8 @@ def simulate(
     crr, drag = drive.rolling_resistance, 0.5 * AIR_DENSITY_ISA * drive.drag_area
     r_total = pack.resistance + wiring_resistance
     capacity_as = pack.capacity_ah * 3600.0
+    open_circuit_voltage = pack.open_circuit_voltage_function()
+    steppers = [ride_stepper(w) for w in windings]
     drives: dict[tuple[int, ...], DriveAt] = {}
     hints: dict[tuple[float, float | None], float] = {}  # the last top speed per grade, target
 
@@ -228,7 +230,7 @@ def simulate(
             steps += 1
             if steps > _MAX_STEPS:
                 raise ValueError("the ride needs too many steps; use a longer dt")
-            ocv = pack.open_circuit_voltage(soc)
+            ocv = open_circuit_voltage(soc)
             key = (math.floor(ocv / voltage_step), *[math.ceil(h / t_step) for h in thetas])
             at = drives.get(key)
             if at is None:
@@ -302,7 +304,7 @@ def simulate(
 
             runaway = False
             for k, current in enumerate(currents):
-                thetas[k], past = ride_step(thetas[k], current, step, windings[k], v)
+                thetas[k], past = steppers[k](thetas[k], current, step, v)
                 runaway = runaway or past
                 if not math.isfinite(thetas[k]):
                     result.stop_reason = f"thermal runaway beyond any temperature at {x:.0f} m"

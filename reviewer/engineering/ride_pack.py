@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import bisect
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from reviewer.engineering.cells import CELL_VOLTAGES
@@ -150,6 +151,24 @@ class PackModel:
     def open_circuit_voltage(self, state_of_charge: float) -> float:
         """OCV of the pack in V at a state of charge."""
         return self.cells_series * cell_open_circuit_voltage(self.chemistry, state_of_charge)
+
+    def open_circuit_voltage_function(self) -> Callable[[float], float]:
+        """:meth:`open_circuit_voltage` with the table read once, the same arithmetic (a test
+        holds them equal): a ride asks it at every step."""
+        table = _table(self.chemistry)
+        charges = [point[0] for point in table]
+        series, first, bisect_left = self.cells_series, table[0][1], bisect.bisect_left
+
+        def ocv(state_of_charge: float) -> float:
+            if not 0.0 <= state_of_charge <= 1.0:
+                raise ValueError(f"state of charge {state_of_charge!r} is outside [0, 1]")
+            index = bisect_left(charges, state_of_charge)
+            if index == 0:
+                return series * first
+            (s0, v0), (s1, v1) = table[index - 1], table[index]
+            return series * (v0 + (v1 - v0) * (state_of_charge - s0) / (s1 - s0))
+
+        return ocv
 
     def terminal_voltage(self, current: float, state_of_charge: float) -> float:
         """V = OCV(s) - I R in V, with ``current`` A flowing out of the pack."""

@@ -250,26 +250,34 @@ def _advance(theta: float, a: float, b: float, dt: float, capacity: float) -> fl
     return theta + rate / b * math.expm1(exponent)
 
 
-def ride_step(
-    theta: float, current: float, dt: float, winding: Winding, speed_ms: float
-) -> tuple[float, bool]:
-    """:func:`winding_step` with runaway allowed, and whether the current is at or past the
-    runaway current (:func:`runaway_parameter` >= 1): the same two answers the ride asks for
-    each step, with the cooling at the speed read once."""
-    if dt < 0:
-        raise ValueError("the step must not be negative")
-    factor = winding.cooling(speed_ms)
-    a, b = _coefficients(current, winding, speed_ms, factor)
-    runaway = (
-        current
-        * current
-        * winding.resistance_20c
-        * winding.alpha
-        * winding.thermal_resistance
-        / factor
-        >= 1.0
+def ride_stepper(winding: Winding) -> Callable[[float, float, float, float], tuple[float, bool]]:
+    """The ride's step of one winding, ``step(theta, current, dt, speed_ms)``: the temperature
+    after ``dt`` s (:func:`winding_step` with runaway allowed) and whether the current is at or
+    past the runaway current (:func:`runaway_parameter` >= 1), the cooling at the speed read
+    once and the winding's constants read once, in the same arithmetic as those two (a test
+    holds them equal to the last bit): a ride takes hundreds of steps of each winding."""
+    r20, alpha, r_th, ambient = (
+        winding.resistance_20c,
+        winding.alpha,
+        winding.thermal_resistance,
+        winding.ambient_c,
     )
-    return _advance(theta, a, b, dt, winding.capacity), runaway
+    capacity, cooling, cold = winding.capacity, winding.cooling, 1.0 - 20.0 * alpha
+
+    def step(theta: float, current: float, dt: float, speed_ms: float) -> tuple[float, bool]:
+        if dt < 0:
+            raise ValueError("the step must not be negative")
+        factor = cooling(speed_ms)
+        if not factor > 0:
+            raise ValueError(f"cooling factor must be positive, got {factor!r} at {speed_ms} m/s")
+        conductance = factor / r_th
+        loss = current * current * r20
+        a = loss * cold + conductance * ambient
+        b = loss * alpha - conductance
+        runaway = current * current * r20 * alpha * r_th / factor >= 1.0
+        return _advance(theta, a, b, dt, capacity), runaway
+
+    return step
 
 
 def time_to_temperature(
