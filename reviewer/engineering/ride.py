@@ -37,7 +37,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
-from reviewer.engineering.ride_drive import DriveAt, SharedLines, cruise_currents
+from reviewer.engineering.ride_drive import DriveAt, SharedLines
 from reviewer.engineering.ride_drive import RideModelError as RideModelError
 from reviewer.engineering.ride_drive import require as _require
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
@@ -247,7 +247,7 @@ def simulate(
                 result.stop_reason = (
                     f"the drive cannot climb {leg.grade:g} % at {ocv:.3g} V (stalled at {x:.0f} m)"
                 )
-                return result
+                return _finished(result)
             v = min(v, cruise)
             remaining = leg.end_m - x
             if v < cruise * (1.0 - _SNAP):  # full throttle: a midpoint step on speed
@@ -272,7 +272,7 @@ def simulate(
                 v = cruise
                 omega = v / radius * ratio
                 load = steady + drag * v * v
-                currents = cruise_currents(lines, load * radius / (eff * ratio), omega)
+                currents = at.cruise_currents(leg.grade, leg.target, load * radius / (eff * ratio))
                 step = min(cruise_step, remaining / v)
                 distance = v * step
                 if distance > remaining or remaining - distance < _EPS_M:
@@ -295,7 +295,7 @@ def simulate(
                 i_batt = battery_current(ocv, r_total, power)
             except PackPowerExceeded as exc:
                 result.stop_reason = f"{exc} (at {x:.0f} m, state of charge {soc:.3f})"
-                return result
+                return _finished(result)
             terminal = ocv - i_batt * pack.resistance
             delivered = terminal * i_batt - i_batt * i_batt * wiring_resistance
             _require(
@@ -308,7 +308,7 @@ def simulate(
                 runaway = runaway or past
                 if not math.isfinite(thetas[k]):
                     result.stop_reason = f"thermal runaway beyond any temperature at {x:.0f} m"
-                    return result
+                    return _finished(result)
             soc_next = soc - i_batt * step / capacity_as
             t += step
             x = leg.end_m if distance >= remaining else x + distance
@@ -324,8 +324,8 @@ def simulate(
             soc = soc_next
             if soc <= 0.0:
                 result.stop_reason = f"the pack is empty at {x:.0f} m"
-                return result
-    return result
+                return _finished(result)
+    return _finished(result)
 
 
 def _next_step(h: float, estimate: float, tolerance: float, least: float, most: float) -> float:
@@ -356,12 +356,29 @@ def _record(
     result.winding_c.append(tuple(thetas))
     result.terminal_v.append(terminal)
     result.state_of_charge.append(soc)
-    hottest = max(thetas)
-    if hottest > result.peak_winding_c:
-        result.peak_winding_c, result.peak_time_s, result.peak_distance_m = hottest, t, x
-        result.peak_motor = thetas.index(hottest)
-    if terminal < result.min_terminal_v:
-        result.min_terminal_v, result.min_voltage_time_s = terminal, t
-        result.min_voltage_distance_m, result.min_voltage_soc = x, soc
-    if terminal < result.cutoff_v and result.first_below_cutoff_s is None:
-        result.first_below_cutoff_s, result.first_below_cutoff_m = t, x
+
+
+def _finished(result: RideResult) -> RideResult:
+    """The summaries read off the series once the ride ends: the first step at the hottest
+    winding (the start's temperature when no step is hotter), the first at the lowest terminal
+    voltage, and the first below the cut-off."""
+    if not result.time_s:
+        return result
+    hottest = list(map(max, result.winding_c))
+    peak = max(hottest)
+    if peak > result.peak_winding_c:
+        k = hottest.index(peak)
+        result.peak_winding_c, result.peak_time_s = peak, result.time_s[k]
+        result.peak_distance_m = result.distance_m[k]
+        result.peak_motor = result.winding_c[k].index(peak)
+    terminal = result.terminal_v
+    lowest = min(terminal)
+    k = terminal.index(lowest)
+    result.min_terminal_v, result.min_voltage_time_s = lowest, result.time_s[k]
+    result.min_voltage_distance_m = result.distance_m[k]
+    result.min_voltage_soc = result.state_of_charge[k]
+    if lowest < result.cutoff_v:
+        k = next(i for i, volts in enumerate(terminal) if volts < result.cutoff_v)
+        result.first_below_cutoff_s = result.time_s[k]
+        result.first_below_cutoff_m = result.distance_m[k]
+    return result

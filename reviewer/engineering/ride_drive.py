@@ -48,21 +48,33 @@ class DriveAt:
         self.drive, self.mass = drive, mass
         self.lines, self.pull = lines
         self._cruise: dict[tuple[float, float | None], float] = {}
+        self._currents: dict[tuple[float, float | None], list[float]] = {}
         self.hints = {} if hints is None else hints
 
     def cruise(self, grade: float, target: float | None) -> float:
         """min(target, the steady top speed on ``grade``) in m/s; 0 when it cannot climb."""
         key = (grade, target)
-        if key not in self._cruise:
+        found = self._cruise.get(key)
+        if found is None:
             d = self.drive
             if target is not None and max(self.pull(target), 0.0) >= road_load_force(
                 self.mass, target, d.rolling_resistance, d.drag_area, grade
             ):
-                self._cruise[key] = target  # the load only rises and the pull only falls
+                found = target  # the load only rises and the pull only falls
             else:
-                self._cruise[key] = self._top_speed(grade, self.hints.get(key))
-            self.hints[key] = self._cruise[key]
-        return self._cruise[key]
+                found = self._top_speed(grade, self.hints.get(key))
+            self._cruise[key] = self.hints[key] = found
+        return found
+
+    def cruise_currents(self, grade: float, target: float | None, torque: float) -> list[float]:
+        """:func:`cruise_currents` at this state's cruise on ``grade`` for ``target`` (whose
+        torque demand is ``torque`` N m), found once per state: a cruise holds one speed."""
+        key = (grade, target)
+        found = self._currents.get(key)
+        if found is None:
+            omega = self.cruise(grade, target) / self.drive.wheel_radius * self.drive.reduction
+            found = self._currents[key] = cruise_currents(self.lines, torque, omega)
+        return found
 
     def _top_speed(self, grade: float, hint: float | None) -> float:
         d, pull = self.drive, self.pull
