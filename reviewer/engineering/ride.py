@@ -35,12 +35,13 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from reviewer.engineering.ride_drive import DriveAt, SharedLines
 from reviewer.engineering.ride_drive import RideModelError as RideModelError
-from reviewer.engineering.ride_drive import require as _require
 from reviewer.engineering.ride_pack import PackModel, PackPowerExceeded, battery_current
+from reviewer.engineering.ride_result import Recorder
+from reviewer.engineering.ride_result import RideResult as RideResult
 from reviewer.engineering.ride_thermal import Winding, ride_stepper
 from reviewer.engineering.roadload import AIR_DENSITY_ISA, Drive, road_load_force
 
@@ -71,67 +72,6 @@ class Segment:
             raise ValueError("a target speed must be positive (None for the drive's top speed)")
         if self.stops < 0:
             raise ValueError("stops must not be negative")
-
-
-@dataclass
-class RideResult:
-    """Series and summaries of one simulated ride.
-
-    Sample k describes step k: time, distance, speed, winding temperatures and state of charge
-    at the step's end; motor currents, battery current and terminal voltage held during it.
-    """
-
-    time_s: list[float] = field(default_factory=list)
-    distance_m: list[float] = field(default_factory=list)
-    speed_ms: list[float] = field(default_factory=list)
-    motor_current_a: list[tuple[float, ...]] = field(default_factory=list)
-    battery_current_a: list[float] = field(default_factory=list)
-    winding_c: list[tuple[float, ...]] = field(default_factory=list)
-    terminal_v: list[float] = field(default_factory=list)
-    state_of_charge: list[float] = field(default_factory=list)
-    cutoff_v: float = 0.0
-    peak_winding_c: float = -math.inf
-    peak_time_s: float = 0.0
-    peak_distance_m: float = 0.0
-    peak_motor: int = 0
-    min_terminal_v: float = math.inf
-    min_voltage_time_s: float = 0.0
-    min_voltage_distance_m: float = 0.0
-    min_voltage_soc: float = 1.0
-    first_below_cutoff_s: float | None = None
-    first_below_cutoff_m: float | None = None
-    cell_energy_wh: float = 0.0  # integral of OCV I_b: what leaves the cells, internal loss in
-    terminal_energy_wh: float = 0.0  # integral of V I_b at the pack terminals
-    shaft_energy_wh: float = 0.0  # integral of T w over all motors: wheel energy / efficiency
-    charge_ah: float = 0.0
-    runaway_s: float = 0.0  # time with some winding past its runaway current
-    stop_reason: str | None = None
-
-    @property
-    def completed(self) -> bool:
-        return self.stop_reason is None
-
-    @property
-    def distance(self) -> float:
-        return self.distance_m[-1] if self.distance_m else 0.0
-
-    @property
-    def duration(self) -> float:
-        return self.time_s[-1] if self.time_s else 0.0
-
-    @property
-    def below_cutoff(self) -> bool:
-        """Whether the terminal voltage fell below the cut-off under load at any step."""
-        return self.first_below_cutoff_s is not None
-
-    def wh_per_km(self, which: str = "cell") -> float:
-        """Energy per km over the distance ridden: ``cell``, ``terminal`` or ``shaft``."""
-        energy = {
-            "cell": self.cell_energy_wh,
-            "terminal": self.terminal_energy_wh,
-            "shaft": self.shaft_energy_wh,
-        }[which]
-        return energy / (self.distance / 1000.0) if self.distance > 0 else math.nan
 
 
 @dataclass(frozen=True)
@@ -220,13 +160,18 @@ def simulate(
     thetas = [w.initial_c for w in windings]
     result.peak_winding_c = max(thetas)
     result.peak_motor = thetas.index(result.peak_winding_c)
+    # the winding's R(theta) = R20 (1 + alpha (theta - 20)) of Winding.resistance, inline
+    coils = [(w.resistance_20c, w.alpha, extra) for w, extra in zip(windings, extra_r, strict=True)]
+    motors = range(len(windings))
+    record = Recorder(result)
     steps = 0
     for leg in _legs(segments):
         if leg.from_rest:
             v = 0.0
         h = accel_step  # the next full-throttle step: grows where the estimate allows
-        steady = road_load_force(total_mass, 0.0, crr, 0.0, leg.grade)  # N, then + drag v^2
-        while x < leg.end_m - _EPS_M:
+        grade, target, end = leg.grade, leg.target, leg.end_m
+        steady = road_load_force(total_mass, 0.0, crr, 0.0, grade)  # N, then + drag v^2
+        while x < end - _EPS_M:
             steps += 1
             if steps > _MAX_STEPS:
                 raise ValueError("the ride needs too many steps; use a longer dt")
@@ -242,21 +187,25 @@ def simulate(
                 lines_here = shared.lines_for(key, volts, hot)
                 at = drives[key] = DriveAt(drive, lines_here, total_mass, hints)
             lines = at.lines
-            cruise = at.cruise(leg.grade, leg.target)
+            cruise = at.cruise(grade, target)
             if cruise <= 0.0:
                 result.stop_reason = (
-                    f"the drive cannot climb {leg.grade:g} % at {ocv:.3g} V (stalled at {x:.0f} m)"
+                    f"the drive cannot climb {grade:g} % at {ocv:.3g} V (stalled at {x:.0f} m)"
                 )
-                return _finished(result)
-            v = min(v, cruise)
-            remaining = leg.end_m - x
+                return record.finished()
+            if v > cruise:
+                v = cruise
+            remaining = end - x
             if v < cruise * (1.0 - _SNAP):  # full throttle: a midpoint step on speed
-                start = (max(at.pull(v), 0.0) - (steady + drag * v * v)) / total_mass
-                _require(start > 0, "below the top speed the drive must outpull the load")
+                pull = at.pull(v)
+                start = ((pull if pull > 0.0 else 0.0) - (steady + drag * v * v)) / total_mass
+                if not start > 0:
+                    raise RideModelError("below the top speed the drive must outpull the load")
                 step = min(h, (cruise - v) / start)
                 middle = min(v + 0.5 * start * step, cruise)
                 load = steady + drag * middle * middle
-                accel = max((max(at.pull(middle), 0.0) - load) / total_mass, 0.5 * start)
+                pull = at.pull(middle)
+                accel = max(((pull if pull > 0.0 else 0.0) - load) / total_mass, 0.5 * start)
                 step = min(step, (cruise - v) / accel)
                 h = _next_step(
                     h, abs(accel - start) * step, accel_tolerance, accel_step, cruise_step
@@ -272,7 +221,7 @@ def simulate(
                 v = cruise
                 omega = v / radius * ratio
                 load = steady + drag * v * v
-                currents = at.cruise_currents(leg.grade, leg.target, load * radius / (eff * ratio))
+                currents = at.cruise_currents(grade, target, load * radius / (eff * ratio))
                 step = min(cruise_step, remaining / v)
                 distance = v * step
                 if distance > remaining or remaining - distance < _EPS_M:
@@ -282,12 +231,13 @@ def simulate(
             # Electrical input, copper loss and the pack.
             power = 0.0
             shaft = 0.0
-            for k, (line, current) in enumerate(zip(lines, currents, strict=True)):
-                w = windings[k]
-                r_winding = w.resistance(thetas[k])
-                electrical = (line.ke * omega + current * (extra_r[k] + r_winding)) * current
-                copper = current * current * r_winding
-                _require(copper <= electrical * (1 + _CHECK) + 1e-12, "copper loss > input")
+            for k in motors:
+                line, current = lines[k], currents[k]
+                r20, alpha, extra = coils[k]
+                r_winding = r20 * (1.0 + alpha * (thetas[k] - 20.0))
+                electrical = (line.ke * omega + current * (extra + r_winding)) * current
+                if not current * current * r_winding <= electrical * (1 + _CHECK) + 1e-12:
+                    raise RideModelError("copper loss > input")
                 power += electrical
                 if current > line.no_load_current:
                     shaft += line.kt * (current - line.no_load_current) * omega
@@ -295,37 +245,40 @@ def simulate(
                 i_batt = battery_current(ocv, r_total, power)
             except PackPowerExceeded as exc:
                 result.stop_reason = f"{exc} (at {x:.0f} m, state of charge {soc:.3f})"
-                return _finished(result)
+                return record.finished()
             terminal = ocv - i_batt * pack.resistance
             delivered = terminal * i_batt - i_batt * i_batt * wiring_resistance
-            _require(
-                abs(delivered - power) <= _CHECK * max(1.0, power), "pack power != drive input"
-            )
+            if not abs(delivered - power) <= _CHECK * (power if power > 1.0 else 1.0):
+                raise RideModelError("pack power != drive input")
 
             runaway = False
-            for k, current in enumerate(currents):
-                thetas[k], past = steppers[k](thetas[k], current, step, v)
+            for k in motors:
+                theta, past = steppers[k](thetas[k], currents[k], step, v)
+                thetas[k] = theta
                 runaway = runaway or past
-                if not math.isfinite(thetas[k]):
+                if not math.isfinite(theta):
                     result.stop_reason = f"thermal runaway beyond any temperature at {x:.0f} m"
-                    return _finished(result)
+                    return record.finished()
             soc_next = soc - i_batt * step / capacity_as
             t += step
-            x = leg.end_m if distance >= remaining else x + distance
+            x = end if distance >= remaining else x + distance
             v = v_next
-            _record(result, t, x, v, currents, i_batt, thetas, terminal, max(soc_next, 0.0))
-            result.cell_energy_wh += ocv * i_batt * step / 3600.0
-            result.terminal_energy_wh += terminal * i_batt * step / 3600.0
-            result.shaft_energy_wh += shaft * step / 3600.0
-            result.charge_ah += i_batt * step / 3600.0
+            record.step(
+                t, x, v, currents, i_batt, thetas, terminal, soc_next if soc_next > 0.0 else 0.0
+            )
+            record.cell_wh += ocv * i_batt * step / 3600.0
+            record.terminal_wh += terminal * i_batt * step / 3600.0
+            record.shaft_wh += shaft * step / 3600.0
+            record.charge_ah += i_batt * step / 3600.0
             if runaway:
-                result.runaway_s += step
-            _require(soc_next <= soc, "state of charge must not rise while driving")
+                record.runaway_s += step
+            if not soc_next <= soc:
+                raise RideModelError("state of charge must not rise while driving")
             soc = soc_next
             if soc <= 0.0:
                 result.stop_reason = f"the pack is empty at {x:.0f} m"
-                return _finished(result)
-    return _finished(result)
+                return record.finished()
+    return record.finished()
 
 
 def _next_step(h: float, estimate: float, tolerance: float, least: float, most: float) -> float:
@@ -335,50 +288,3 @@ def _next_step(h: float, estimate: float, tolerance: float, least: float, most: 
     at most doubling, never below ``least`` (the profile's step) nor above ``most``."""
     grown = 2.0 * h if estimate <= 0.0 else h * min(2.0, 0.9 * math.sqrt(tolerance / estimate))
     return min(max(grown, least), max(most, least))
-
-
-def _record(
-    result: RideResult,
-    t: float,
-    x: float,
-    v: float,
-    currents: list[float],
-    i_batt: float,
-    thetas: list[float],
-    terminal: float,
-    soc: float,
-) -> None:
-    result.time_s.append(t)
-    result.distance_m.append(x)
-    result.speed_ms.append(v)
-    result.motor_current_a.append(tuple(currents))
-    result.battery_current_a.append(i_batt)
-    result.winding_c.append(tuple(thetas))
-    result.terminal_v.append(terminal)
-    result.state_of_charge.append(soc)
-
-
-def _finished(result: RideResult) -> RideResult:
-    """The summaries read off the series once the ride ends: the first step at the hottest
-    winding (the start's temperature when no step is hotter), the first at the lowest terminal
-    voltage, and the first below the cut-off."""
-    if not result.time_s:
-        return result
-    hottest = list(map(max, result.winding_c))
-    peak = max(hottest)
-    if peak > result.peak_winding_c:
-        k = hottest.index(peak)
-        result.peak_winding_c, result.peak_time_s = peak, result.time_s[k]
-        result.peak_distance_m = result.distance_m[k]
-        result.peak_motor = result.winding_c[k].index(peak)
-    terminal = result.terminal_v
-    lowest = min(terminal)
-    k = terminal.index(lowest)
-    result.min_terminal_v, result.min_voltage_time_s = lowest, result.time_s[k]
-    result.min_voltage_distance_m = result.distance_m[k]
-    result.min_voltage_soc = result.state_of_charge[k]
-    if lowest < result.cutoff_v:
-        k = next(i for i, volts in enumerate(terminal) if volts < result.cutoff_v)
-        result.first_below_cutoff_s = result.time_s[k]
-        result.first_below_cutoff_m = result.distance_m[k]
-    return result
