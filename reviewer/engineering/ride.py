@@ -163,6 +163,7 @@ def simulate(
     # the winding's R(theta) = R20 (1 + alpha (theta - 20)) of Winding.resistance, inline
     coils = [(w.resistance_20c, w.alpha, extra) for w, extra in zip(windings, extra_r, strict=True)]
     motors = range(len(windings))
+    floor, ceil = math.floor, math.ceil
     record = Recorder(result)
     steps = 0
     for leg in _legs(segments):
@@ -176,7 +177,7 @@ def simulate(
             if steps > _MAX_STEPS:
                 raise ValueError("the ride needs too many steps; use a longer dt")
             ocv = open_circuit_voltage(soc)
-            key = (math.floor(ocv / voltage_step), *[math.ceil(h / t_step) for h in thetas])
+            key = (floor(ocv / voltage_step), *[ceil(theta / t_step) for theta in thetas])
             at = drives.get(key)
             if at is None:
                 hot = [
@@ -201,12 +202,17 @@ def simulate(
                 start = ((pull if pull > 0.0 else 0.0) - (steady + drag * v * v)) / total_mass
                 if not start > 0:
                     raise RideModelError("below the top speed the drive must outpull the load")
-                step = min(h, (cruise - v) / start)
-                middle = min(v + 0.5 * start * step, cruise)
+                # min() and max() written out: the same values, in the loop's hottest lines
+                step = (cruise - v) / start
+                step = h if h <= step else step
+                middle = v + 0.5 * start * step
+                middle = middle if middle <= cruise else cruise
                 load = steady + drag * middle * middle
                 pull = at.pull(middle)
-                accel = max(((pull if pull > 0.0 else 0.0) - load) / total_mass, 0.5 * start)
-                step = min(step, (cruise - v) / accel)
+                accel = ((pull if pull > 0.0 else 0.0) - load) / total_mass
+                accel = accel if accel >= 0.5 * start else 0.5 * start
+                last = (cruise - v) / accel
+                step = step if step <= last else last
                 h = _next_step(
                     h, abs(accel - start) * step, accel_tolerance, accel_step, cruise_step
                 )
@@ -216,13 +222,15 @@ def simulate(
                 if distance > remaining:
                     step = 2.0 * remaining / (v + math.sqrt(v * v + 2.0 * accel * remaining))
                     distance = remaining
-                v_next = min(v + accel * step, cruise)
+                v_next = v + accel * step
+                v_next = v_next if v_next <= cruise else cruise
             else:  # cruise
                 v = cruise
                 omega = v / radius * ratio
                 load = steady + drag * v * v
                 currents = at.cruise_currents(grade, target, load * radius / (eff * ratio))
-                step = min(cruise_step, remaining / v)
+                step = remaining / v
+                step = cruise_step if cruise_step <= step else step
                 distance = v * step
                 if distance > remaining or remaining - distance < _EPS_M:
                     distance = remaining
