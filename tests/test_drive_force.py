@@ -67,3 +67,18 @@ def test_lines_at_a_voltage_are_the_lines_of_the_changed_drive() -> None:
         )
         changed = replace(drive, full_voltage=voltage, motors=motors)
         assert drive.lines_at(voltage, extra) == changed.lines()
+        for derived, built in zip(drive.lines_at(voltage, extra), changed.lines(), strict=True):
+            assert (derived.kt, derived.ke) == (built.kt, built.ke)  # not compared by ==
+
+
+def test_a_line_moved_to_another_voltage_is_the_line_built_afresh() -> None:
+    # Kt = Ke = 60 / (2 pi Kv) depend on Kv alone (SI definition), so a line carried to another
+    # voltage and resistance keeps them; every field and both constants match a fresh line
+    line = TorqueSpeedLine(150.0, 42.0, 0.2, 0.9, 35.0, 20.0)
+    moved = line.at(37.5, 0.26)
+    fresh = TorqueSpeedLine(150.0, 37.5, 0.26, 0.9, 35.0, 20.0)
+    assert moved == fresh and vars(moved) == vars(fresh)
+    assert moved.kt == pytest.approx(60.0 / (2.0 * math.pi * 150.0), rel=1e-15)
+    assert (line.voltage, line.loop_resistance) == (42.0, 0.2)  # the original is untouched
+    with pytest.raises(ValueError):
+        line.at(37.5, 0.0)

@@ -92,6 +92,18 @@ class TorqueSpeedLine:
         object.__setattr__(self, "kt", torque_constant(self.kv_rpm_per_v))
         object.__setattr__(self, "ke", back_emf_constant(self.kv_rpm_per_v))
 
+    def at(self, voltage: float, loop_resistance: float) -> TorqueSpeedLine:
+        """This line at another effective voltage and loop resistance, Kv, I0 and both limits
+        kept: equal to the line built afresh (a test holds it), with Kt and Ke carried over
+        rather than derived again. The fields are written into the new instance's ``__dict__``
+        directly, as the frozen dataclass's own ``__init__`` does through ``object.__setattr__``:
+        a ride builds a line for every state it passes through."""
+        if not loop_resistance > 0:
+            raise ValueError("loop resistance must be positive")
+        line = object.__new__(TorqueSpeedLine)
+        line.__dict__.update(self.__dict__, voltage=voltage, loop_resistance=loop_resistance)
+        return line
+
     @property
     def stall_current(self) -> float:
         """Locked-rotor current before any current limit acts."""

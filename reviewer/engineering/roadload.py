@@ -15,6 +15,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from functools import cached_property
 
 from reviewer.engineering.motor import TorqueSpeedLine, drive_force_function
 from reviewer.engineering.steady_speed import straight_piece_speed
@@ -318,16 +319,14 @@ class Drive:
         copy of the drive so changed, without building the copy."""
         shared = len(self.motors) * self.duty * self.duty * self.shared_resistance
         return [
-            TorqueSpeedLine(
-                kv_rpm_per_v=motor.kv_rpm_per_v,
-                voltage=self.duty * voltage,
-                loop_resistance=(motor.branch_resistance + extra) + shared,
-                no_load_current=motor.no_load_current,
-                current_limit=self.current_limit,
-                battery_limit=self.battery_limit,
-            )
-            for motor, extra in zip(self.motors, extra_resistance, strict=True)
+            line.at(self.duty * voltage, (motor.branch_resistance + extra) + shared)
+            for line, motor, extra in zip(self._lines, self.motors, extra_resistance, strict=True)
         ]
+
+    @cached_property
+    def _lines(self) -> tuple[TorqueSpeedLine, ...]:
+        """``lines()``, kept: what ``lines_at`` derives its lines from."""
+        return tuple(self.lines())
 
 
 # Top speed against reduction rises while a drive is under-geared, then falls. Starting from a
