@@ -5,7 +5,8 @@ time without them, in process, on every sample; no review slower than 50 ms in p
 largest sample. A review in process is what ``Session.review_loaded(parse_build(bytes))`` and
 the Markdown render do: parse and validate the build file's bytes, run the rules, render (the
 session is shared, as in a fleet); the ratio of the rules and render alone, on one validated
-build, is printed beside it, as the stricter figure. Medians of --runs, timed in turn.
+build, is printed beside it, as the stricter figure. Medians of --runs, timed in turn, the
+collector off while a review is timed and run between reviews.
 
     python benchmarks/ride_cost.py [--runs 41]
 """
@@ -37,10 +38,12 @@ def medians_ms(raw: bytes, name: str, profile, both, runs: int) -> list[float]:
     for _ in range(runs):
         for k, rules in enumerate(both):
             _LAST.clear()  # the ride is simulated once per build: a new build each review
+            gc.collect()  # each timed review starts on a clean heap (the collector is off)
             start = time.perf_counter()
             render_markdown(review(parse_build(raw, name).build, profile, rules))
             times[k].append(time.perf_counter() - start)
             _LAST.clear()
+            gc.collect()
             start = time.perf_counter()
             render_markdown(review(build, profile, rules))
             times[2 + k].append(time.perf_counter() - start)
