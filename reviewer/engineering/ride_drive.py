@@ -81,15 +81,15 @@ class DriveAt:
         # road_load_force's terms, hoisted (the same arithmetic): steady + drag v^2
         steady = road_load_force(self.mass, 0.0, d.rolling_resistance, 0.0, grade)
         drag = 0.5 * AIR_DENSITY_ISA * d.drag_area
-
-        def surplus(v: float) -> float:
-            return max(pull(v), 0.0) - (steady + drag * v * v)
-
         exact = straight_piece_speed(
             self.lines, d.reduction, d.efficiency, d.wheel_radius, steady, drag, pull, clamped=True
         )
         if exact is not None:
             return exact
+
+        def surplus(v: float) -> float:
+            return max(pull(v), 0.0) - (steady + drag * v * v)
+
         if hint is not None and hint > 0.0:
             # the pull never rises with speed and the load always does: one crossing, most
             # often within 0.2 % of the last state's (a narrow bracket closes in fewer steps); a

@@ -56,18 +56,21 @@ def straight_piece_speed(
         else:
             c += line.kt * (line.current_limit - line.no_load_current)
     a, b, c = gain * a, gain * per_speed * b, gain * c
-    candidates: list[tuple[str, float]] = []
+    # the candidates in turn: voltage-limited, at the current limit, the pull spent
     if a > steady and b > 0.0:
         root = math.sqrt(b * b + 4.0 * drag * (a - steady)) if drag > 0.0 else b
-        candidates.append(("V", 2.0 * (a - steady) / (b + root)))
+        speed = 2.0 * (a - steady) / (b + root)
+        if speed > 0.0 and _on_piece(lines, "V", speed * per_speed, pull, speed, clamped):
+            return speed
     if drag > 0.0:
         if limited and c > steady:
-            candidates.append(("I", math.sqrt((c - steady) / drag)))
+            speed = math.sqrt((c - steady) / drag)
+            if speed > 0.0 and _on_piece(lines, "I", speed * per_speed, pull, speed, clamped):
+                return speed
         if clamped and steady < 0.0:
-            candidates.append(("0", math.sqrt(-steady / drag)))
-    for piece, speed in candidates:
-        if speed > 0.0 and _on_piece(lines, piece, speed * per_speed, pull, speed, clamped):
-            return speed
+            speed = math.sqrt(-steady / drag)
+            if speed > 0.0 and pull(speed) <= 0.0:
+                return speed
     return None
 
 
@@ -79,10 +82,8 @@ def _on_piece(
     speed: float,
     clamped: bool,
 ) -> bool:
-    """Whether every line's current takes ``piece`` at ``omega`` (and, clamped, whether the
-    pull is on the side of zero the piece assumes)."""
-    if piece == "0":
-        return pull(speed) <= 0.0
+    """Whether every line's current takes ``piece`` ("V" or "I") at ``omega`` and, clamped,
+    whether the pull is not below zero there."""
     for line in lines:
         unlimited = (line.voltage - line.ke * omega) / line.loop_resistance
         limit = line.current_limit
