@@ -388,7 +388,7 @@ def test_the_rides_step_is_the_exact_step_and_the_runaway_test() -> None:
         step = ride_stepper(winding)
         for current in (0.0, 5.0, 15.0, 40.0, 400.0):
             for speed in (0.0, 3.0, 9.0):
-                for theta, dt in ((60.0, 10.0), (23.7, 0.37), (141.0, 1.0)):
+                for theta, dt in ((60.0, 10.0), (23.7, 0.37), (141.0, 1.0), (60.0, 1e7)):
                     stepped, past = step(theta, current, dt, speed)
                     assert stepped == winding_step(theta, current, dt, winding, speed, True)
                     assert past == (runaway_parameter(current, winding, speed) >= 1.0)
@@ -423,6 +423,30 @@ def test_a_coasting_cruise_with_every_motor_past_its_no_load_speed_draws_nothing
     assert cruise_currents(lines, 7.5e-10, omega) == [0.0, 0.0]
     with pytest.raises(RideModelError, match="more torque"):
         cruise_currents(lines, 0.01, omega)  # a real demand the lines cannot meet still fails
+
+
+def test_one_motors_cruise_current_is_the_torque_over_kt_plus_i0() -> None:
+    # T = Kt (I - I0) (brief 3): one motor gives the whole demand, I = T / Kt + I0, never
+    # above its line; the one-line path keeps the shared path's arithmetic to the last bit
+    from reviewer.engineering.motor import TorqueSpeedLine
+    from reviewer.engineering.ride_drive import cruise_currents
+
+    for limit, battery in ((None, None), (30.0, None), (None, 12.0), (20.0, 9.0)):
+        line = TorqueSpeedLine(120.0, 42.0, 0.25, 0.7, limit, battery)
+        for omega in (0.0, 50.0, 200.0, 300.0):
+            most = line.current(omega)
+            most_torque = line.kt * (most - 0.7)
+            for share in (0.05, 0.5, 1.0):
+                torque = share * most_torque
+                if torque <= 1e-6:
+                    continue
+                kept = max(line.kt * (most - 0.7), 0.0)
+                expected = min(torque * kept / kept / line.kt + 0.7, most)
+                (current,) = cruise_currents([line], torque, omega)
+                assert current == expected
+                assert current == pytest.approx(torque / line.kt + 0.7, rel=1e-12)
+            with pytest.raises(RideModelError, match="more torque"):
+                cruise_currents([line], 1.01 * most_torque + 1e-3, omega)
 
 
 def test_a_two_motor_ride_with_unequal_windings_runs_the_whole_route() -> None:

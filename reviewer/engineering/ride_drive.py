@@ -148,6 +148,14 @@ def cruise_currents(lines: list[TorqueSpeedLine], torque: float, omega: float) -
     grade: what is left is the root's rounding) draws nothing."""
     if torque <= NO_TORQUE:
         return [0.0] * len(lines)
+    if len(lines) == 1:  # the same arithmetic for the one-motor build, without the lists
+        line = lines[0]
+        most_one = line.current(omega)
+        share = line.kt * (most_one - line.no_load_current)
+        share = 0.0 if share < 0.0 else share  # max(share, 0.0)
+        require(share >= torque * (1.0 - 1e-6), "cruise demands more torque than the drive gives")
+        one = torque * share / share / line.kt + line.no_load_current
+        return [most_one if most_one < one else one]  # min(one, most_one)
     most = [line.current(omega) for line in lines]
     maxima = [max(ln.kt * (c - ln.no_load_current), 0.0) for ln, c in zip(lines, most, strict=True)]
     total = sum(maxima)

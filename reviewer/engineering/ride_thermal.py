@@ -263,11 +263,16 @@ def ride_stepper(winding: Winding) -> Callable[[float, float, float, float], tup
         winding.ambient_c,
     )
     capacity, cooling, cold = winding.capacity, winding.cooling, 1.0 - 20.0 * alpha
+    # the same cooling at every speed is read once (and checked once)
+    fixed = cooling.factor if isinstance(cooling, ConstantCooling) else None
+    if fixed is not None and not fixed > 0:
+        raise ValueError(f"cooling factor must be positive, got {fixed!r}")
+    expm1 = math.expm1
 
     def step(theta: float, current: float, dt: float, speed_ms: float) -> tuple[float, bool]:
         if dt < 0:
             raise ValueError("the step must not be negative")
-        factor = cooling(speed_ms)
+        factor = fixed if fixed is not None else cooling(speed_ms)
         if not factor > 0:
             raise ValueError(f"cooling factor must be positive, got {factor!r} at {speed_ms} m/s")
         conductance = factor / r_th
@@ -275,7 +280,14 @@ def ride_stepper(winding: Winding) -> Callable[[float, float, float, float], tup
         a = loss * cold + conductance * ambient
         b = loss * alpha - conductance
         runaway = current * current * r20 * alpha * r_th / factor >= 1.0
-        return _advance(theta, a, b, dt, capacity), runaway
+        # _advance, inline
+        rate = a + b * theta
+        if b == 0.0:
+            return theta + rate * dt / capacity, runaway
+        exponent = b * dt / capacity
+        if exponent > _MAX_EXPONENT:
+            return (math.inf if rate > 0 else -math.inf), runaway
+        return theta + rate / b * expm1(exponent), runaway
 
     return step
 
