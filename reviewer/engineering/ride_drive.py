@@ -48,7 +48,7 @@ class DriveAt:
         self.drive, self.mass = drive, mass
         self.lines, self.pull = lines
         self._cruise: dict[tuple[float, float | None], float] = {}
-        self._currents: dict[tuple[float, float | None], list[float]] = {}
+        self._currents: dict[tuple[float, float | None], tuple[float, ...]] = {}
         self.hints = {} if hints is None else hints
 
     def cruise(self, grade: float, target: float | None) -> float:
@@ -66,14 +66,17 @@ class DriveAt:
             self._cruise[key] = self.hints[key] = found
         return found
 
-    def cruise_currents(self, grade: float, target: float | None, torque: float) -> list[float]:
+    def cruise_currents(
+        self, grade: float, target: float | None, torque: float
+    ) -> tuple[float, ...]:
         """:func:`cruise_currents` at this state's cruise on ``grade`` for ``target`` (whose
-        torque demand is ``torque`` N m), found once per state: a cruise holds one speed."""
+        torque demand is ``torque`` N m), found once per state (a cruise holds one speed) and
+        kept as a tuple, so no caller can change what the next one reads."""
         key = (grade, target)
         found = self._currents.get(key)
         if found is None:
             omega = self.cruise(grade, target) / self.drive.wheel_radius * self.drive.reduction
-            found = self._currents[key] = cruise_currents(self.lines, torque, omega)
+            found = self._currents[key] = tuple(cruise_currents(self.lines, torque, omega))
         return found
 
     def _top_speed(self, grade: float, hint: float | None) -> float:

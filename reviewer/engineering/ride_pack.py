@@ -97,7 +97,18 @@ def cell_open_circuit_voltage(chemistry: str, state_of_charge: float) -> float:
     if not 0.0 <= state_of_charge <= 1.0:
         raise ValueError(f"state of charge {state_of_charge!r} is outside [0, 1]")
     table = _table(chemistry)
-    index = bisect.bisect_left(table, (state_of_charge, -math.inf))
+    return _between(table, _CHARGES[chemistry], state_of_charge)
+
+
+#: each table's states of charge, for the bisection
+_CHARGES = {chemistry: [point[0] for point in table] for chemistry, table in OCV_TABLES.items()}
+
+
+def _between(
+    table: tuple[tuple[float, float], ...], charges: list[float], state_of_charge: float
+) -> float:
+    """The table's voltage at ``state_of_charge`` (in [0, 1]), linear between its points."""
+    index = bisect.bisect_left(charges, state_of_charge)
     if index == 0:
         return table[0][1]
     (s0, v0), (s1, v1) = table[index - 1], table[index]
@@ -155,18 +166,13 @@ class PackModel:
     def open_circuit_voltage_function(self) -> Callable[[float], float]:
         """:meth:`open_circuit_voltage` with the table read once, the same arithmetic (a test
         holds them equal): a ride asks it at every step."""
-        table = _table(self.chemistry)
-        charges = [point[0] for point in table]
-        series, first, bisect_left = self.cells_series, table[0][1], bisect.bisect_left
+        table, charges = _table(self.chemistry), _CHARGES[self.chemistry]
+        series = self.cells_series
 
         def ocv(state_of_charge: float) -> float:
             if not 0.0 <= state_of_charge <= 1.0:
                 raise ValueError(f"state of charge {state_of_charge!r} is outside [0, 1]")
-            index = bisect_left(charges, state_of_charge)
-            if index == 0:
-                return series * first
-            (s0, v0), (s1, v1) = table[index - 1], table[index]
-            return series * (v0 + (v1 - v0) * (state_of_charge - s0) / (s1 - s0))
+            return series * _between(table, charges, state_of_charge)
 
         return ocv
 

@@ -4,6 +4,7 @@ recorder ``reviewer.engineering.ride.simulate`` fills step by step."""
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 
@@ -92,7 +93,7 @@ class Recorder:
         t: float,
         x: float,
         v: float,
-        currents: list[float],
+        currents: Sequence[float],
         i_batt: float,
         thetas: list[float],
         terminal: float,
