@@ -70,9 +70,9 @@ class RideResult:
 
 
 class Recorder:
-    """The series of one ride, appended step by step, and its sums (kept in locals of this
-    object while the ride runs, the same additions in the same order); ``finished`` writes the
-    sums and reads the summaries off the series."""
+    """The series of one ride, appended step by step, and its sums (kept on this object while
+    the ride runs, the same additions in the same order as on the result); ``finished`` adds
+    the sums to the result and reads the summaries off the series."""
 
     def __init__(self, result: RideResult) -> None:
         self.result = result
